@@ -1,0 +1,6 @@
+export * from "./auth";
+export * from "./projects";
+export * from "./field";
+export * from "./lab";
+export * from "./scans";
+export * from "./audit";

@@ -1,0 +1,89 @@
+import { sql } from "drizzle-orm";
+import { check, index, integer, primaryKey, real, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { user } from "./auth";
+import { createdAt, id, updatedAt } from "./columns";
+import { samples } from "./field";
+import { projects } from "./projects";
+
+export const SUBMISSION_STATUSES = ["draft", "sent", "received", "in_progress", "reported", "closed"] as const;
+export const PRIORITIES = ["routine", "high", "urgent"] as const;
+
+export const submissions = sqliteTable(
+  "submissions",
+  {
+    id: id(),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    code: text("code").notNull(),
+    requestedAnalysis: text("requested_analysis").notNull(),
+    priority: text("priority", { enum: PRIORITIES }).notNull().default("routine"),
+    hazards: text("hazards"),
+    notes: text("notes"),
+    labEmail: text("lab_email"),
+    status: text("status", { enum: SUBMISSION_STATUSES }).notNull().default("draft"),
+    waybill: text("waybill"),
+    createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+    sentAt: integer("sent_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    uniqueIndex("submissions_project_code_uq").on(t.projectId, t.code),
+    index("submissions_project_status_idx").on(t.projectId, t.status),
+    check("submissions_priority_ck", sql`${t.priority} IN ('routine','high','urgent')`),
+  ],
+);
+
+export const submissionSamples = sqliteTable(
+  "submission_samples",
+  {
+    submissionId: text("submission_id")
+      .notNull()
+      .references(() => submissions.id, { onDelete: "cascade" }),
+    sampleId: text("sample_id")
+      .notNull()
+      .references(() => samples.id, { onDelete: "cascade" }),
+    /** received | missing | damaged | extra, recorded at intake. */
+    intakeCondition: text("intake_condition"),
+  },
+  (t) => [primaryKey({ columns: [t.submissionId, t.sampleId] }), index("submission_samples_sample_idx").on(t.sampleId)],
+);
+
+export const CUSTODY_EVENTS = [
+  "collected",
+  "dispatched",
+  "received",
+  "prepared",
+  "scanned",
+  "stored",
+  "returned",
+  "discarded",
+  "transferred",
+] as const;
+
+/** One hand-over or handling step of a physical sample. Append-only. */
+export const custodyEvents = sqliteTable(
+  "custody_events",
+  {
+    id: id(),
+    sampleId: text("sample_id")
+      .notNull()
+      .references(() => samples.id, { onDelete: "cascade" }),
+    submissionId: text("submission_id").references(() => submissions.id, { onDelete: "set null" }),
+    event: text("event", { enum: CUSTODY_EVENTS }).notNull(),
+    actorId: text("actor_id").references(() => user.id, { onDelete: "set null" }),
+    actorName: text("actor_name"),
+    occurredAt: text("occurred_at").notNull(),
+    location: text("location"),
+    sealNumber: text("seal_number"),
+    condition: text("condition"),
+    weightKg: real("weight_kg"),
+    note: text("note"),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    index("custody_sample_idx").on(t.sampleId, t.occurredAt),
+    index("custody_submission_idx").on(t.submissionId),
+  ],
+);

@@ -1,0 +1,76 @@
+import { sql } from "drizzle-orm";
+import { check, index, integer, primaryKey, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
+import { user } from "./auth";
+import { createdAt, id, updatedAt } from "./columns";
+
+export const PROJECT_ROLES = ["lead", "field_geologist", "lab_analyst", "consultant"] as const;
+export type ProjectRole = (typeof PROJECT_ROLES)[number];
+
+export const organisations = sqliteTable("organisations", {
+  id: id(),
+  name: text("name").notNull(),
+  createdAt: createdAt(),
+});
+
+export const projects = sqliteTable(
+  "projects",
+  {
+    id: id(),
+    organisationId: text("organisation_id")
+      .notNull()
+      .references(() => organisations.id, { onDelete: "restrict" }),
+    /** Prefix of sample codes, e.g. "KRV" → KRV-000123. */
+    code: text("code").notNull(),
+    name: text("name").notNull(),
+    description: text("description"),
+    region: text("region"),
+    /** Last sample sequence number issued; codes are never reused. */
+    sampleSeq: integer("sample_seq").notNull().default(0),
+    stationSeq: integer("station_seq").notNull().default(0),
+    submissionSeq: integer("submission_seq").notNull().default(0),
+    labEmail: text("lab_email"),
+    createdAt: createdAt(),
+    updatedAt: updatedAt(),
+  },
+  (t) => [
+    uniqueIndex("projects_code_uq").on(t.code),
+    check("projects_code_ck", sql`${t.code} GLOB '[A-Z][A-Z0-9]*' AND length(${t.code}) BETWEEN 2 AND 8`),
+  ],
+);
+
+export const projectMembers = sqliteTable(
+  "project_members",
+  {
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    userId: text("user_id")
+      .notNull()
+      .references(() => user.id, { onDelete: "cascade" }),
+    role: text("role", { enum: PROJECT_ROLES }).notNull(),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    primaryKey({ columns: [t.projectId, t.userId] }),
+    index("project_members_user_idx").on(t.userId),
+    check("project_members_role_ck", sql`${t.role} IN ('lead','field_geologist','lab_analyst','consultant')`),
+  ],
+);
+
+export const invitations = sqliteTable(
+  "invitations",
+  {
+    id: id(),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    email: text("email").notNull(),
+    role: text("role", { enum: PROJECT_ROLES }).notNull(),
+    tokenHash: text("token_hash").notNull(),
+    invitedBy: text("invited_by").references(() => user.id, { onDelete: "set null" }),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    acceptedAt: integer("accepted_at", { mode: "timestamp_ms" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("invitations_token_uq").on(t.tokenHash), index("invitations_project_idx").on(t.projectId)],
+);

@@ -1,0 +1,36 @@
+import { betterAuth } from "better-auth";
+import { drizzleAdapter } from "better-auth/adapters/drizzle";
+import { nextCookies } from "better-auth/next-js";
+import { admin } from "better-auth/plugins";
+import { getDb, type Db } from "@/db";
+import * as schema from "@/db/schema";
+
+function makeAuth(db: Db) {
+  return betterAuth({
+    appName: "Lithodex",
+    baseURL: process.env.BETTER_AUTH_URL || "http://localhost:3000",
+    secret: process.env.BETTER_AUTH_SECRET || "lithodex-dev-secret-change-me-in-production-0123456789",
+    database: drizzleAdapter(db, { provider: "sqlite", schema }),
+    emailAndPassword: { enabled: true, minPasswordLength: 8, disableSignUp: process.env.LITHODEX_OPEN_SIGNUP !== "1" },
+    plugins: [admin(), nextCookies()],
+    telemetry: { enabled: false },
+    trustedOrigins: (process.env.TRUSTED_ORIGINS || "http://localhost:3000,http://127.0.0.1:3000").split(","),
+  });
+}
+
+export type Auth = ReturnType<typeof makeAuth>;
+
+const cache = new WeakMap<Db, Auth>();
+
+/** better-auth bound to the current database (tests switch databases per file). */
+export function getAuth(): Auth {
+  const db = getDb();
+  let auth = cache.get(db);
+  if (!auth) {
+    auth = makeAuth(db);
+    cache.set(db, auth);
+  }
+  return auth;
+}
+
+export const auth = getAuth();
