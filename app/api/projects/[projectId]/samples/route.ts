@@ -1,0 +1,13 @@
+import { created, parseJson, parseQuery, withActor } from "@/lib/api/handler";
+import { createSample, listSamples } from "@/lib/dal/samples";
+import { sampleListQuerySchema } from "@/lib/validation/sample";
+
+// GET /api/projects/:projectId/samples — one page of the register (any member)
+export const GET = withActor<{ projectId: string }>(async ({ actor, params, url }) =>
+  listSamples(actor, params.projectId, parseQuery(url, sampleListQuerySchema)),
+);
+
+// POST /api/projects/:projectId/samples — create a sample (lead, field geologist)
+export const POST = withActor<{ projectId: string }>(async ({ actor, params, req }) =>
+  created(await createSample(actor, params.projectId, await parseJson(req))),
+);

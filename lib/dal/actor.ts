@@ -1,0 +1,56 @@
+import "server-only";
+import { and, eq } from "drizzle-orm";
+import { getDb } from "@/db";
+import { projectMembers, projects, type ProjectRole } from "@/db/schema";
+import { getAuth } from "@/lib/auth";
+import { forbidden, notFound, unauthorized } from "./errors";
+import { roleAllows, type Permission } from "./permissions";
+
+/** The signed-in user as every DAL function sees it. */
+export interface Actor {
+  userId: string;
+  name: string;
+  email: string;
+  isAdmin: boolean;
+}
+
+/** Reads the better-auth session from request headers; null when not signed in. */
+export async function getActor(headers: Headers): Promise<Actor | null> {
+  const session = await getAuth().api.getSession({ headers });
+  if (!session) return null;
+  const u = session.user as { id: string; name: string; email: string; role?: string | null; banned?: boolean | null };
+  if (u.banned) return null;
+  return { userId: u.id, name: u.name, email: u.email, isAdmin: u.role === "admin" };
+}
+
+export async function requireActor(headers: Headers): Promise<Actor> {
+  const actor = await getActor(headers);
+  if (!actor) throw unauthorized();
+  return actor;
+}
+
+export interface ProjectAccess {
+  projectId: string;
+  projectCode: string;
+  /** The member's role; site admins without membership act as "lead". */
+  role: ProjectRole;
+}
+
+/**
+ * The one access check: the actor must be a member of the project (else 404, so other projects stay
+ * invisible) and the role must allow the permission (else 403). Site admins pass every check.
+ */
+export async function authorize(actor: Actor, projectId: string, permission: Permission): Promise<ProjectAccess> {
+  const db = getDb();
+  const [row] = await db
+    .select({ id: projects.id, code: projects.code, role: projectMembers.role })
+    .from(projects)
+    .leftJoin(projectMembers, and(eq(projectMembers.projectId, projects.id), eq(projectMembers.userId, actor.userId)))
+    .where(eq(projects.id, projectId))
+    .limit(1);
+  if (!row) throw notFound("Project not found.");
+  if (actor.isAdmin) return { projectId: row.id, projectCode: row.code, role: row.role ?? "lead" };
+  if (!row.role) throw notFound("Project not found.");
+  if (!roleAllows(row.role, permission)) throw forbidden();
+  return { projectId: row.id, projectCode: row.code, role: row.role };
+}

@@ -1,0 +1,75 @@
+import { z } from "zod";
+import { LOCATION_SOURCES, SAMPLE_STATUSES, SAMPLE_TYPES } from "@/db/schema/field";
+import { ianaZone, isoInstant, latitude, longitude, optionalText } from "./common";
+
+export const SAMPLE_CODE_RE = /^[A-Z0-9][A-Z0-9-]{1,30}$/;
+/** IGSN: a DOI-style "10.xxxx/SUFFIX" (optionally with igsn: or the doi.org prefix) or a legacy 9-character code. */
+export const IGSN_RE = /^(?:(?:igsn:|https:\/\/doi\.org\/)?10\.\d{4,9}\/[A-Z0-9._\-/]+|[A-Z0-9]{5,12})$/i;
+
+const sampleFields = {
+  code: z.string().trim().toUpperCase().regex(SAMPLE_CODE_RE, "Use capital letters, digits and hyphens, e.g. APR-000123."),
+  igsn: z.string().trim().regex(IGSN_RE, "Not an IGSN: use 10.prefix/SUFFIX (or igsn:10.prefix/SUFFIX).").nullable().optional(),
+  stationId: z.string().trim().min(1).nullable().optional(),
+  sampleType: z.enum(SAMPLE_TYPES, { error: `Sample type must be one of: ${SAMPLE_TYPES.join(", ")}.` }),
+  lithology: optionalText(120),
+  alteration: optionalText(200),
+  alterationIntensity: z.enum(["none", "weak", "moderate", "strong", "intense"]).nullable().optional(),
+  description: optionalText(4000),
+  collectedAt: isoInstant.nullable().optional(),
+  collectedTz: ianaZone.nullable().optional(),
+  collectorName: optionalText(120),
+  lat: latitude.nullable().optional(),
+  lon: longitude.nullable().optional(),
+  elevationM: z.number().min(-500, "Elevation below −500 m is implausible.").max(9000, "Elevation above 9000 m is implausible.").nullable().optional(),
+  horizontalAccuracyM: z.number().min(0, "Accuracy cannot be negative.").max(100000).nullable().optional(),
+  locationSource: z.enum(LOCATION_SOURCES).nullable().optional(),
+  storageLocation: optionalText(200),
+  status: z.enum(SAMPLE_STATUSES).optional(),
+  suspectedAsbestos: z.boolean().optional(),
+  weightKg: z.number().positive("Weight must be positive.").max(1000).nullable().optional(),
+};
+
+const bothOrNeither = (v: { lat?: number | null; lon?: number | null }) => (v.lat == null) === (v.lon == null);
+const coordMessage = { message: "Give both latitude and longitude, or neither.", path: ["lon"] };
+
+/** Create: the code is optional (the project sequence issues one). */
+export const sampleCreateSchema = z
+  .object({ ...sampleFields, code: sampleFields.code.optional() })
+  .strict()
+  .refine(bothOrNeither, coordMessage);
+
+/** Patch: any subset of fields, plus the version the client read (optimistic concurrency). */
+export const samplePatchSchema = z
+  .object({ ...sampleFields, version: z.number().int().min(1, "version is required.") })
+  .partial()
+  .required({ version: true })
+  .strict();
+
+export type SampleCreateInput = z.infer<typeof sampleCreateSchema>;
+export type SamplePatchInput = z.infer<typeof samplePatchSchema>;
+
+export const SAMPLE_SORTS = ["code", "collectedAt", "sampleType", "lithology", "status", "station", "updatedAt"] as const;
+
+/** Query string of the register: paging, sort, filters. */
+export const sampleListQuerySchema = z.object({
+  page: z.coerce.number().int().min(1).default(1),
+  pageSize: z.coerce.number().int().min(1).max(500).default(25),
+  sort: z.enum(SAMPLE_SORTS).default("code"),
+  dir: z.enum(["asc", "desc"]).default("asc"),
+  q: z.string().trim().max(100).optional(),
+  code: z.string().trim().max(40).optional(),
+  status: z.enum(SAMPLE_STATUSES).optional(),
+  sampleType: z.enum(SAMPLE_TYPES).optional(),
+  stationId: z.string().optional(),
+  lithology: z.string().trim().max(120).optional(),
+  alteration: z.string().trim().max(120).optional(),
+  collector: z.string().trim().max(120).optional(),
+  from: z.string().date("from must be a date YYYY-MM-DD.").optional(),
+  to: z.string().date("to must be a date YYYY-MM-DD.").optional(),
+  /** west,south,east,north in degrees */
+  bbox: z
+    .string()
+    .regex(/^-?\d+(\.\d+)?(,-?\d+(\.\d+)?){3}$/, "bbox is west,south,east,north in decimal degrees.")
+    .optional(),
+});
+export type SampleListQuery = z.infer<typeof sampleListQuerySchema>;
