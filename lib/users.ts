@@ -13,7 +13,7 @@ export async function createUserWithPassword(input: { email: string; name: strin
     name: input.name,
     emailVerified: true,
     role: input.siteRole ?? "user",
-  });
+  }, { method: "admin" });
   const hash = await ctx.password.hash(input.password);
   await ctx.internalAdapter.linkAccount({ userId: user.id, providerId: "credential", accountId: user.id, password: hash });
   return user;

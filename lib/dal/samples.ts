@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, count, desc, eq, gte, like, lt, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, count, desc, eq, gte, lt, or, sql, type AnyColumn, type SQL } from "drizzle-orm";
 import { getDb } from "@/db";
 import { projects, samples, stations } from "@/db/schema";
 import { sampleCreateSchema, samplePatchSchema, type SampleListQuery } from "@/lib/validation/sample";
@@ -22,7 +22,7 @@ function escapeLike(s: string): string {
 /** WHERE clause of the register for a query (shared by list, export and map). */
 export function sampleFilter(projectId: string, q: Partial<SampleListQuery>): SQL {
   const parts: (SQL | undefined)[] = [eq(samples.projectId, projectId)];
-  const contains = (col: typeof samples.code, v: string) => like(col, `%${escapeLike(v)}%`);
+  const contains = (col: AnyColumn, v: string) => sql`${col} LIKE ${`%${escapeLike(v)}%`} ESCAPE '\\'`;
   if (q.q) {
     const v = q.q;
     parts.push(or(contains(samples.code, v), contains(samples.description, v), contains(samples.lithology, v), contains(samples.igsn, v)));

@@ -1,0 +1,72 @@
+import type { Metadata } from "next";
+import Link from "next/link";
+import { notFound } from "next/navigation";
+import { Badge } from "@/components/ui/badge";
+import { Card } from "@/components/ui/card";
+import { AppError } from "@/lib/dal/errors";
+import { getSampleOrThrow } from "@/lib/dal/samples";
+import { currentActor } from "@/lib/dal/session";
+import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS, formatCollected, formatLatLon } from "@/lib/format";
+
+export const metadata: Metadata = { title: "Sample" };
+
+function Row({ label, children }: { label: string; children: React.ReactNode }) {
+  return (
+    <div className="grid grid-cols-3 gap-2 border-t border-line py-2 first:border-0">
+      <dt className="text-sm text-muted">{label}</dt>
+      <dd className="col-span-2 text-sm">{children ?? "—"}</dd>
+    </div>
+  );
+}
+
+export default async function SamplePage({ params }: { params: Promise<{ projectId: string; sampleId: string }> }) {
+  const { projectId, sampleId } = await params;
+  const actor = await currentActor();
+  const s = await getSampleOrThrow(actor, projectId, sampleId).catch((err) => {
+    if (err instanceof AppError && err.code === "not_found") notFound();
+    throw err;
+  });
+  return (
+    <div className="space-y-4">
+      <nav className="text-sm text-muted">
+        <Link href={`/projects/${projectId}/samples`} className="hover:underline">
+          Sample register
+        </Link>{" "}
+        / {s.code}
+      </nav>
+      <div className="flex flex-wrap items-center gap-3">
+        <h1 className="text-2xl font-semibold" data-testid="sample-code">
+          {s.code}
+        </h1>
+        <Badge tone={s.status === "confirmed" ? "ok" : "brand"}>{SAMPLE_STATUS_LABELS[s.status]}</Badge>
+        {s.suspectedAsbestos && <Badge tone="danger">Suspected asbestos — handle as hazardous</Badge>}
+      </div>
+      <div className="grid gap-4 lg:grid-cols-2">
+        <Card>
+          <h2 className="mb-2 font-semibold">Description</h2>
+          <dl>
+            <Row label="Type">{SAMPLE_TYPE_LABELS[s.sampleType]}</Row>
+            <Row label="Lithology">{s.lithology}</Row>
+            <Row label="Alteration">{[s.alteration, s.alterationIntensity].filter(Boolean).join(", ") || null}</Row>
+            <Row label="Description">{s.description}</Row>
+            <Row label="IGSN">{s.igsn}</Row>
+            <Row label="Weight">{s.weightKg != null ? `${s.weightKg} kg` : null}</Row>
+          </dl>
+        </Card>
+        <Card>
+          <h2 className="mb-2 font-semibold">Collection</h2>
+          <dl>
+            <Row label="Station">{s.station ? `${s.station.code}${s.station.name ? ` — ${s.station.name}` : ""}` : null}</Row>
+            <Row label="Collected">{formatCollected(s.collectedAt, s.collectedTz)}</Row>
+            <Row label="Collector">{s.collectorName}</Row>
+            <Row label="Position (WGS84)">{formatLatLon(s.lat ?? s.station?.lat, s.lon ?? s.station?.lon)}</Row>
+            <Row label="Elevation">{s.elevationM != null ? `${s.elevationM} m` : null}</Row>
+            <Row label="Horizontal accuracy">{s.horizontalAccuracyM != null ? `± ${s.horizontalAccuracyM} m` : null}</Row>
+            <Row label="Storage">{s.storageLocation}</Row>
+          </dl>
+        </Card>
+      </div>
+      <p className="text-xs text-muted">Record version {s.version}.</p>
+    </div>
+  );
+}

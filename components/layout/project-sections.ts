@@ -1,0 +1,11 @@
+import type { ProjectRole } from "@/db/schema/projects";
+
+/** The project's tabs, in order. Add a section here when a feature adds a page. */
+export function projectSections(projectId: string, role: ProjectRole): { href: string; label: string }[] {
+  const base = `/projects/${projectId}`;
+  void role;
+  return [
+    { href: base, label: "Overview" },
+    { href: `${base}/samples`, label: "Samples" },
+  ];
+}
