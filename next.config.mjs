@@ -3,6 +3,8 @@ const nextConfig = {
   // exifr loads fs/zlib dynamically; bundling it breaks file reads on the server.
   serverExternalPackages: ["exifr"],
   poweredByHeader: false,
+  // A separate build folder lets browser tests build beside a running dev server.
+  distDir: process.env.NEXT_DIST_DIR || ".next",
   // Types are checked by `npm run typecheck` (CI runs it); the build does not repeat it.
   typescript: { ignoreBuildErrors: true },
 };

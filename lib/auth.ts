@@ -14,6 +14,8 @@ function makeAuth(db: Db) {
     emailAndPassword: { enabled: true, minPasswordLength: 8, disableSignUp: process.env.LITHODEX_OPEN_SIGNUP !== "1" },
     plugins: [admin(), nextCookies()],
     telemetry: { enabled: false },
+    // Throttles sign-in attempts per IP in production; browser tests sign in many times from one IP.
+    rateLimit: { enabled: process.env.NODE_ENV === "production" && process.env.LITHODEX_AUTH_RATE_LIMIT !== "off" },
     trustedOrigins: (process.env.TRUSTED_ORIGINS || "http://localhost:3000,http://127.0.0.1:3000").split(","),
   });
 }

@@ -19,7 +19,9 @@ export function SignInForm({ next }: { next: string }) {
     const { error } = await authClient.signIn.email({ email: String(form.get("email")), password: String(form.get("password")) });
     setPending(false);
     if (error) {
-      setError(error.status === 401 || error.code === "INVALID_EMAIL_OR_PASSWORD" ? "E-mail or password is not right." : error.message || "Sign-in failed.");
+      if (error.status === 429) setError("Too many attempts from this device. Wait a minute and try again.");
+      else if (error.status === 401 || error.code === "INVALID_EMAIL_OR_PASSWORD") setError("E-mail or password is not right.");
+      else setError(error.message || "Sign-in failed.");
       return;
     }
     router.push(next);
