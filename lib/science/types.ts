@@ -38,6 +38,12 @@ export interface Peak {
   fwhm: number;
   /** Standard uncertainty of the FWHM from the fit, ° 2θ. */
   fwhmEsd?: number;
+  /** Standard uncertainty of the position from the fit, ° 2θ. */
+  twoThetaEsd?: number;
+  /** Standard uncertainty of d propagated from twoThetaEsd, Å. */
+  dEsd?: number;
+  /** Standard uncertainty of the area from the fit, counts·°. */
+  areaEsd?: number;
   /** Pseudo-Voigt mixing η (0 Gaussian … 1 Lorentzian). */
   eta?: number;
   /** Relative intensity, strongest = 100 (by height). */
