@@ -12,7 +12,7 @@ import { fitPhaseScales, type PhaseContribution } from "./fit-phase-scales";
 import { prepareObservedPeaks } from "./observed-peaks";
 import { scanReferenceLines, type ScanReferenceLines } from "./reference-lines";
 import { rirWeightFractions } from "./rir-quantification";
-import { buildStrongLineIndex, lookupStrongLines, type DWindow } from "./strong-line-index";
+import { buildStrongLineIndex, lookupStrongLines } from "./strong-line-index";
 import type {
   IdentificationResult,
   IdentifiedPhase,
@@ -49,7 +49,7 @@ export function identifyPhases(peaks: readonly Peak[], library: readonly Referen
     residualStopPercent = 2,
     maxPeakFwhm = 1.5,
     lookupPeaks = 12,
-    minSharedStrongLines = 2,
+    minSharedStrongLines = 3,
     maxCandidates = 20,
     kAlpha2,
   } = options;
@@ -139,29 +139,43 @@ export function identifyPhases(peaks: readonly Peak[], library: readonly Referen
       .filter((j) => residual[j] > 0)
       .sort((a, b) => residual[b] - residual[a])
       .slice(0, lookupPeaks);
-    const windows: DWindow[] = order.map((j) => {
-      const t = obs.twoTheta[j];
-      const w = Math.max(tolTT, (2 * Math.tan((t * DEG) / 2) * tolD) / DEG) + maxZeroShift;
-      return { dLow: dAt(Math.min(t + w, 179), wavelength), dHigh: dAt(Math.max(t - w, 0.01), wavelength) };
-    });
-    const shortlist = lookupStrongLines(index, windows, minSharedStrongLines, dRange);
-    let pick: { r: number; ev: CandidateEvaluation } | null = null;
-    for (const r of shortlist) {
-      if (!passes(r) || accepted.some((a) => a.r === r)) continue;
-      const ev = evaluateCandidate(linesOf(r), obs, residual, residualTotal, settings);
-      params.candidatesScored++;
-      const confident = isConfident(ev);
-      const prev = best.get(r);
-      if (!prev || ev.score > prev.ev.score) best.set(r, { ev, round, confident: confident || (prev?.confident ?? false) });
-      else if (confident) prev.confident = true;
-      // A new phase must explain a noticeable part of what is left.
-      if (confident && ev.explainedResidual >= (residualStopPercent / 200) * total && (!pick || ev.score > pick.ev.score)) pick = { r, ev };
-    }
+    const strongTT = order.map((j) => obs.twoTheta[j]);
+    const lookup = (minShared: number): number[] =>
+      lookupStrongLines(index, {
+        twoTheta: strongTT,
+        wavelength,
+        tolerance: strongTT.map((t) => Math.max(tolTT, (2 * Math.tan((t * DEG) / 2) * tolD) / DEG)),
+        maxZeroShift,
+        minShared,
+        dRange,
+      });
+    const found: { pick: { r: number; ev: CandidateEvaluation } | null } = { pick: null };
+    const seen = new Set<number>();
+    const scoreAll = (shortlist: number[]): void => {
+      for (const r of shortlist) {
+        if (seen.has(r) || !passes(r) || accepted.some((a) => a.r === r)) continue;
+        seen.add(r);
+        const ev = evaluateCandidate(linesOf(r), obs, residual, residualTotal, settings);
+        params.candidatesScored++;
+        const confident = isConfident(ev);
+        const prev = best.get(r);
+        if (!prev || ev.score > prev.ev.score) best.set(r, { ev, round, confident: confident || (prev?.confident ?? false) });
+        else if (confident) prev.confident = true;
+        // A new phase must explain a noticeable part of what is left.
+        if (confident && ev.explainedResidual >= (residualStopPercent / 200) * total && (!found.pick || ev.score > found.pick.ev.score))
+          found.pick = { r, ev };
+      }
+    };
+    scoreAll(lookup(minSharedStrongLines));
+    // Round 1 (for the ranked alternatives) or nothing found: widen the look-up to references sharing two strong
+    // lines (overlaps and preferred orientation can hide a third).
+    if ((round === 1 || !found.pick) && minSharedStrongLines > 2) scoreAll(lookup(2));
+    const pick = found.pick;
     if (!pick) break;
     const refByPeak = new Map<number, number>();
     const lines = linesOf(pick.r);
     pick.ev.lineIndex.forEach((i, k) => {
-      const j = pick!.ev.obsIndex[k];
+      const j = pick.ev.obsIndex[k];
       refByPeak.set(j, (refByPeak.get(j) ?? 0) + lines.intensity[i]);
     });
     accepted.push({ r: pick.r, ev: pick.ev, contribution: { refByPeak, scale: pick.ev.scale } });

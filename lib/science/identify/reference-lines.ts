@@ -40,48 +40,60 @@ const DEG = Math.PI / 180;
  */
 export function scanReferenceLines(pattern: ReferencePattern, options: ScanReferenceLinesOptions): ScanReferenceLines {
   const { wavelength, window, mergeWidth = 0.04, toleranceTwoTheta = 0.1, toleranceDRelative = 0 } = options;
-  const raw: { tt: number; i: number; k: number; d: number }[] = [];
-  pattern.lines.forEach((line, k) => {
+  const src = pattern.lines;
+  const m = src.length;
+  // Positions of the usable lines, then their order by 2θ (the contract says d descending; do not rely on it).
+  const rawTT = new Float64Array(m);
+  const order: number[] = [];
+  let sorted = true;
+  for (let k = 0; k < m; k++) {
+    const line = src[k];
     const s = wavelength / (2 * line.d);
-    if (!(s > 0 && s < 1) || !(line.intensity > 0)) return;
+    if (!(s > 0 && s < 1) || !(line.intensity > 0)) continue;
     const tt = (2 * Math.asin(s)) / DEG;
-    if (tt < window[0] || tt > window[1]) return;
-    raw.push({ tt, i: line.intensity, k, d: line.d });
-  });
-  raw.sort((a, b) => a.tt - b.tt);
-  const tt: number[] = [];
-  const inten: number[] = [];
-  const refIndex: number[] = [];
-  const dd: number[] = [];
+    if (tt < window[0] || tt > window[1]) continue;
+    rawTT[k] = tt;
+    if (order.length > 0 && tt < rawTT[order[order.length - 1]]) sorted = false;
+    order.push(k);
+  }
+  if (!sorted) order.sort((a, b) => rawTT[a] - rawTT[b]);
+  const n0 = order.length;
+  const twoTheta = new Float64Array(n0);
+  const intensity = new Float64Array(n0);
+  const refIndex = new Int32Array(n0);
+  const d = new Float64Array(n0);
+  let n = 0;
   let g = 0;
-  while (g < raw.length) {
-    let sum = raw[g].i;
-    let moment = raw[g].i * raw[g].tt;
-    let best = g;
+  while (g < n0) {
+    const first = order[g];
+    let sum = src[first].intensity;
+    let moment = sum * rawTT[first];
+    let best = first;
     let h = g + 1;
-    while (h < raw.length && raw[h].tt - raw[h - 1].tt < mergeWidth) {
-      sum += raw[h].i;
-      moment += raw[h].i * raw[h].tt;
-      if (raw[h].i > raw[best].i) best = h;
+    while (h < n0 && rawTT[order[h]] - rawTT[order[h - 1]] < mergeWidth) {
+      const k = order[h];
+      sum += src[k].intensity;
+      moment += src[k].intensity * rawTT[k];
+      if (src[k].intensity > src[best].intensity) best = k;
       h++;
     }
-    tt.push(moment / sum);
-    inten.push(sum);
-    refIndex.push(raw[best].k);
-    dd.push(raw[best].d);
+    twoTheta[n] = moment / sum;
+    intensity[n] = sum;
+    refIndex[n] = best;
+    d[n] = src[best].d;
+    n++;
     g = h;
   }
-  const n = tt.length;
   const tolerance = new Float64Array(n);
   for (let i = 0; i < n; i++) {
-    const fromD = ((2 * Math.tan((tt[i] * DEG) / 2) * toleranceDRelative) / DEG);
+    const fromD = (2 * Math.tan((twoTheta[i] * DEG) / 2) * toleranceDRelative) / DEG;
     tolerance[i] = Math.max(toleranceTwoTheta, fromD);
   }
   return {
-    twoTheta: Float64Array.from(tt),
-    intensity: Float64Array.from(inten),
-    refIndex: Int32Array.from(refIndex),
-    d: Float64Array.from(dd),
+    twoTheta: twoTheta.subarray(0, n),
+    intensity: intensity.subarray(0, n),
+    refIndex: refIndex.subarray(0, n),
+    d: d.subarray(0, n),
     tolerance,
     length: n,
   };

@@ -67,7 +67,11 @@ export interface IdentifyOptions {
   maxPeakFwhm?: number;
   /** Number of strongest (unexplained) observed peaks used for the strong-line index look-up per round. @default 12 */
   lookupPeaks?: number;
-  /** Reference lines used for the strong-line index look-up must be shared at least this often. @default 2 */
+  /**
+   * Strong lines a reference must share with the strongest unexplained peaks to be scored (a round that finds
+   * nothing retries with 2).
+   * @default 3
+   */
   minSharedStrongLines?: number;
   /** Number of candidates returned. @default 20 */
   maxCandidates?: number;

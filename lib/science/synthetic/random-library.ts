@@ -27,7 +27,7 @@ const DEG = Math.PI / 180;
 const CU_KA1 = 1.540593;
 
 function randomCell(random: Random): { cell: UnitCell; system: string } {
-  const len = () => 3 + random() * 9;
+  const len = () => 3 + random() * 6.5;
   const pick = random();
   if (pick < 0.12) {
     const a = len();
@@ -39,7 +39,7 @@ function randomCell(random: Random): { cell: UnitCell; system: string } {
   }
   if (pick < 0.45) {
     const a = len();
-    return { cell: { a, b: a, c: len() * 1.5, alpha: 90, beta: 90, gamma: 120 }, system: "hexagonal" };
+    return { cell: { a, b: a, c: len() * 1.4, alpha: 90, beta: 90, gamma: 120 }, system: "hexagonal" };
   }
   if (pick < 0.65) return { cell: { a: len(), b: len(), c: len(), alpha: 90, beta: 90, gamma: 90 }, system: "orthorhombic" };
   if (pick < 0.9) return { cell: { a: len(), b: len(), c: len(), alpha: 90, beta: 92 + random() * 28, gamma: 90 }, system: "monoclinic" };
@@ -59,6 +59,28 @@ export function randomReferenceLibrary(options: RandomLibraryOptions): Reference
   const random = createRandom(seed);
   const out: ReferencePattern[] = [];
   const qMax = 1 / (dMin * dMin);
+  let bufQ = new Float64Array(4096);
+  let bufI = new Float64Array(4096);
+  let bufH = new Int32Array(3 * 4096);
+  let mQ = new Float64Array(4096);
+  let mI = new Float64Array(4096);
+  let mM = new Int32Array(4096);
+  let mR = new Int32Array(4096);
+  const grow = (): void => {
+    const q = new Float64Array(bufQ.length * 2);
+    q.set(bufQ);
+    const i = new Float64Array(bufQ.length * 2);
+    i.set(bufI);
+    const hh = new Int32Array(bufH.length * 2);
+    hh.set(bufH);
+    bufQ = q;
+    bufI = i;
+    bufH = hh;
+    mQ = new Float64Array(bufQ.length);
+    mI = new Float64Array(bufQ.length);
+    mM = new Int32Array(bufQ.length);
+    mR = new Int32Array(bufQ.length);
+  };
   for (let p = 0; p < count; p++) {
     const { cell } = randomCell(random);
     const g = reciprocalMetric(cell);
@@ -67,42 +89,69 @@ export function randomReferenceLibrary(options: RandomLibraryOptions): Reference
     const lMax = Math.floor(cell.c / dMin);
     const centring = random() < 0.35 ? (random() < 0.5 ? "I" : "C") : "P";
     const B = 0.5 + random();
-    const raw: { h: number; k: number; l: number; q: number; i: number }[] = [];
+    let count = 0;
     // Half of reciprocal space (Friedel pairs counted through the multiplicity 2).
     for (let h = 0; h <= hMax; h++) {
       for (let k = -kMax; k <= kMax; k++) {
+        const qhk = g[0] * h * h + g[4] * k * k + 2 * g[1] * h * k;
+        if (qhk > qMax * 1.5 + 1) continue;
         for (let l = -lMax; l <= lMax; l++) {
           if (h === 0 && (k < 0 || (k === 0 && l <= 0))) continue;
-          const q = g[0] * h * h + g[4] * k * k + g[8] * l * l + 2 * (g[1] * h * k + g[2] * h * l + g[5] * k * l);
+          const q = qhk + g[8] * l * l + 2 * (g[2] * h * l + g[5] * k * l);
           if (q > qMax || q <= 0) continue;
           if (centring === "I" && (h + k + l) % 2 !== 0) continue;
           if (centring === "C" && (h + k) % 2 !== 0) continue;
+          if (count === bufQ.length) grow();
           const f2 = -Math.log(1 - random() * 0.999999);
-          const s = Math.sin(Math.asin(Math.min(1, (CU_KA1 * Math.sqrt(q)) / 2)));
-          const th = Math.asin(s);
-          const lp = (1 + Math.cos(2 * th) ** 2) / (Math.sin(th) ** 2 * Math.cos(th));
-          raw.push({ h, k, l, q, i: 2 * f2 * lp * Math.exp((-2 * B * q) / 4) });
+          const sin2 = Math.min(0.999999, (CU_KA1 * CU_KA1 * q) / 4);
+          const cos2t = 1 - 2 * sin2;
+          const lp = (1 + cos2t * cos2t) / (sin2 * Math.sqrt(1 - sin2));
+          bufQ[count] = q;
+          bufI[count] = 2 * f2 * lp * Math.exp((-2 * B * q) / 4);
+          bufH[3 * count] = h;
+          bufH[3 * count + 1] = k;
+          bufH[3 * count + 2] = l;
+          count++;
         }
       }
     }
-    raw.sort((a, b) => a.q - b.q);
-    const merged: ReferenceLine[] = [];
-    for (const r of raw) {
-      const d = 1 / Math.sqrt(r.q);
-      const last = merged[merged.length - 1];
-      if (last && Math.abs(last.d - d) < 1e-5) {
-        last.intensity += r.i;
-        last.multiplicity += 2;
-      } else merged.push({ h: r.h, k: r.k, l: r.l, d, intensity: r.i, multiplicity: 2 });
+    const order = new Uint32Array(count);
+    for (let i = 0; i < count; i++) order[i] = i;
+    order.sort((x, y) => bufQ[x] - bufQ[y]);
+    // Merge reflections at equal d (symmetry-equivalent or accidental), in place into the m* buffers.
+    let nm = 0;
+    let maxI = 0;
+    for (let o = 0; o < count; o++) {
+      const r = order[o];
+      if (nm > 0 && bufQ[r] - mQ[nm - 1] < 1e-9 * bufQ[r] + 1e-12) {
+        mI[nm - 1] += bufI[r];
+        mM[nm - 1] += 2;
+      } else {
+        mQ[nm] = bufQ[r];
+        mI[nm] = bufI[r];
+        mM[nm] = 2;
+        mR[nm] = r;
+        nm++;
+      }
+      if (mI[nm - 1] > maxI) maxI = mI[nm - 1];
     }
-    let max = 0;
-    for (const m of merged) max = Math.max(max, m.intensity);
-    const lines = merged
-      .map((m) => ({ ...m, intensity: (100 * m.intensity) / max, twoTheta: (2 * Math.asin(CU_KA1 / (2 * m.d))) / DEG }))
-      .filter((m) => m.intensity >= 0.5)
-      .sort((a, b) => b.intensity - a.intensity)
-      .slice(0, maxLines)
-      .sort((a, b) => b.d - a.d);
+    const keep: number[] = [];
+    for (let i = 0; i < nm; i++) if ((100 * mI[i]) / maxI >= 0.5) keep.push(i);
+    if (keep.length > maxLines) keep.sort((x, y) => mI[y] - mI[x]).splice(maxLines);
+    keep.sort((x, y) => mQ[x] - mQ[y]);
+    const lines: ReferenceLine[] = keep.map((i) => {
+      const d = 1 / Math.sqrt(mQ[i]);
+      const r = mR[i];
+      return {
+        h: bufH[3 * r],
+        k: bufH[3 * r + 1],
+        l: bufH[3 * r + 2],
+        d,
+        intensity: (100 * mI[i]) / maxI,
+        multiplicity: mM[i],
+        twoTheta: (2 * Math.asin(CU_KA1 / (2 * d))) / DEG,
+      };
+    });
     const elements = new Set(["O"]);
     const extra = 1 + Math.floor(random() * 3);
     while (elements.size < extra + 1) elements.add(ELEMENTS[Math.floor(random() * ELEMENTS.length)]);
