@@ -51,7 +51,7 @@ SYMOP_TAGS = ["_space_group_symop_operation_xyz", "_symmetry_equiv_pos_as_xyz"]
 
 def label_score(hkl):
     nn = sum(1 for v in hkl if v >= 0)
-    return (nn, hkl[0], hkl[1], hkl[2])
+    return (nn, hkl[2] >= 0, hkl[1] >= 0, hkl[0] >= 0, hkl[0], hkl[1], hkl[2])
 
 
 def pick_block(doc):

@@ -166,12 +166,14 @@ function enumerateClasses(structure: CifStructure, gs: Float64Array, dMin: numbe
 }
 
 /**
- * Preference among index triples for labels: most non-negative indices, then lexicographically largest
- * (1 0 1 before 0 1 1, 2 1 0 before 1 2 0, −1 2 1 before 1 −2 −1). Common practice for hkl labels.
+ * Preference among index triples for labels (common practice in mineral powder data, e.g. −2 0 1, −1 2 1):
+ * most non-negative indices; then non-negative l, then k, then h; then lexicographically largest
+ * (1 0 1 before 0 1 1, 2 1 0 before 1 2 0).
  */
 function labelScore(r: { h: number; k: number; l: number }): number {
   const nn = (r.h >= 0 ? 1 : 0) + (r.k >= 0 ? 1 : 0) + (r.l >= 0 ? 1 : 0);
-  return ((nn * 2048 + r.h + 512) * 1024 + r.k + 512) * 1024 + r.l + 512;
+  const signs = (r.l >= 0 ? 4 : 0) + (r.k >= 0 ? 2 : 0) + (r.h >= 0 ? 1 : 0);
+  return (((nn * 8 + signs) * 1024 + r.h + 512) * 1024 + r.k + 512) * 1024 + r.l + 512;
 }
 
 /** cos/sin tables of 2π·n·x_j for n = −N…N, one row per n. */
@@ -390,7 +392,7 @@ export function computePatternDetailed(structure: CifStructure, options: Pattern
   }
   let imax = 0;
   for (const l of lines) imax = Math.max(imax, l.absoluteIntensity);
-  for (const l of lines) l.intensity = imax > 0 ? (100 * l.absoluteIntensity) / imax : 0;
+  for (const l of lines) l.intensity = imax > 0 ? 100 * (l.absoluteIntensity / imax) : 0;
 
   return {
     lines: o.minIntensity > 0 ? lines.filter((l) => l.intensity >= o.minIntensity) : lines,
