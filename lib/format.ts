@@ -1,4 +1,4 @@
-import type { SampleStatus, SampleType } from "@/db/schema/field";
+import type { SampleStatus, SampleType } from "@/lib/vocabulary";
 
 export const SAMPLE_TYPE_LABELS: Record<SampleType, string> = {
   hand_sample: "Hand sample",

@@ -1,4 +1,4 @@
-import type { ProjectRole } from "@/db/schema/projects";
+import type { ProjectRole } from "@/lib/vocabulary";
 
 /** The project's tabs, in order. Add a section here when a feature adds a page. */
 export function projectSections(projectId: string, role: ProjectRole): { href: string; label: string }[] {

@@ -8,7 +8,7 @@ import { useMemo, useState } from "react";
 import { Badge } from "@/components/ui/badge";
 import { buttonClass } from "@/components/ui/button";
 import { inputClass } from "@/components/ui/field";
-import { SAMPLE_STATUSES, SAMPLE_TYPES } from "@/db/schema/field";
+import { SAMPLE_STATUSES, SAMPLE_TYPES } from "@/lib/vocabulary";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS, formatDate } from "@/lib/format";
 import { cn } from "@/lib/utils";

@@ -3,38 +3,12 @@ import { check, index, integer, real, sqliteTable, text, uniqueIndex } from "dri
 import { user } from "./auth";
 import { createdAt, id, updatedAt } from "./columns";
 import { projects } from "./projects";
+import { SAMPLE_TYPES, SAMPLE_STATUSES, LOCATION_SOURCES, ELEVATION_REFS, STRUCTURE_KINDS, STRUCTURE_FEATURES } from "../../lib/vocabulary";
+export { SAMPLE_TYPES, type SampleType, SAMPLE_STATUSES, type SampleStatus, LOCATION_SOURCES, ELEVATION_REFS, STRUCTURE_KINDS, STRUCTURE_FEATURES } from "../../lib/vocabulary";
 
-export const SAMPLE_TYPES = [
-  "hand_sample",
-  "chip",
-  "channel",
-  "float",
-  "core",
-  "soil",
-  "stream_sediment",
-  "other",
-] as const;
-export type SampleType = (typeof SAMPLE_TYPES)[number];
 
-/** Lifecycle of a physical sample, field to storage. */
-export const SAMPLE_STATUSES = [
-  "planned",
-  "collected",
-  "dispatched",
-  "received",
-  "prepared",
-  "scanned",
-  "processed",
-  "confirmed",
-  "reported",
-  "stored",
-  "returned",
-  "discarded",
-] as const;
-export type SampleStatus = (typeof SAMPLE_STATUSES)[number];
 
-export const LOCATION_SOURCES = ["device_gnss", "external_gnss", "map", "photo_exif", "legacy", "other"] as const;
-export const ELEVATION_REFS = ["msl", "ellipsoid"] as const;
+
 
 const inList = (values: readonly string[]) => sql.raw(values.map((v) => `'${v}'`).join(","));
 
@@ -70,21 +44,6 @@ export const stations = sqliteTable(
   ],
 );
 
-export const STRUCTURE_KINDS = ["planar", "linear"] as const;
-export const STRUCTURE_FEATURES = [
-  "bedding",
-  "foliation",
-  "cleavage",
-  "joint",
-  "fault",
-  "vein",
-  "contact",
-  "dyke",
-  "lineation",
-  "fold_hinge",
-  "slickenline",
-  "other",
-] as const;
 
 /**
  * A structural measurement at a station. Planes are stored as dip direction/dip (strike by the

@@ -4,9 +4,10 @@ import { user } from "./auth";
 import { createdAt, id, updatedAt } from "./columns";
 import { samples } from "./field";
 import { projects } from "./projects";
+import { SUBMISSION_STATUSES, PRIORITIES, CUSTODY_EVENTS } from "../../lib/vocabulary";
+export { SUBMISSION_STATUSES, PRIORITIES, CUSTODY_EVENTS } from "../../lib/vocabulary";
 
-export const SUBMISSION_STATUSES = ["draft", "sent", "received", "in_progress", "reported", "closed"] as const;
-export const PRIORITIES = ["routine", "high", "urgent"] as const;
+
 
 export const submissions = sqliteTable(
   "submissions",
@@ -50,17 +51,6 @@ export const submissionSamples = sqliteTable(
   (t) => [primaryKey({ columns: [t.submissionId, t.sampleId] }), index("submission_samples_sample_idx").on(t.sampleId)],
 );
 
-export const CUSTODY_EVENTS = [
-  "collected",
-  "dispatched",
-  "received",
-  "prepared",
-  "scanned",
-  "stored",
-  "returned",
-  "discarded",
-  "transferred",
-] as const;
 
 /** One hand-over or handling step of a physical sample. Append-only. */
 export const custodyEvents = sqliteTable(

@@ -2,9 +2,10 @@ import { sql } from "drizzle-orm";
 import { check, index, integer, primaryKey, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 import { user } from "./auth";
 import { createdAt, id, updatedAt } from "./columns";
+import { PROJECT_ROLES } from "../../lib/vocabulary";
+export { PROJECT_ROLES, type ProjectRole } from "../../lib/vocabulary";
 
-export const PROJECT_ROLES = ["lead", "field_geologist", "lab_analyst", "consultant"] as const;
-export type ProjectRole = (typeof PROJECT_ROLES)[number];
+
 
 export const organisations = sqliteTable("organisations", {
   id: id(),

@@ -4,9 +4,10 @@ import { user } from "./auth";
 import { createdAt, id } from "./columns";
 import { samples } from "./field";
 import { projects } from "./projects";
+import { SCAN_STATUSES, ANODES, REFERENCE_HAZARDS, PHASE_STATUSES } from "../../lib/vocabulary";
+export { SCAN_STATUSES, ANODES, REFERENCE_HAZARDS, PHASE_STATUSES } from "../../lib/vocabulary";
 
-export const SCAN_STATUSES = ["uploaded", "processing", "processed", "failed", "signed_off"] as const;
-export const ANODES = ["Cu", "Co", "Fe", "Cr", "Mo", "Ag"] as const;
+
 
 export const scans = sqliteTable(
   "scans",
@@ -90,7 +91,6 @@ export const peaks = sqliteTable(
   (t) => [index("peaks_run_idx").on(t.runId, t.twoTheta)],
 );
 
-export const REFERENCE_HAZARDS = ["asbestos", "crystalline_silica"] as const;
 
 export const referencePhases = sqliteTable(
   "reference_phases",
@@ -123,7 +123,6 @@ export const referencePhases = sqliteTable(
   (t) => [uniqueIndex("reference_mineral_uq").on(t.mineral, t.builtin, t.cellA), index("reference_mineral_idx").on(t.mineral)],
 );
 
-export const PHASE_STATUSES = ["candidate", "accepted", "rejected"] as const;
 
 /** A candidate or analyst-chosen phase for a run; confirmed when accepted and the scan is signed off. */
 export const phaseResults = sqliteTable(

@@ -1,4 +1,4 @@
-import type { ProjectRole } from "@/db/schema/projects";
+import type { ProjectRole } from "@/lib/vocabulary";
 
 /**
  * Who may do what in a project: the single source of truth. DEVELOPERS.md's role matrix and the

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { LOCATION_SOURCES, SAMPLE_STATUSES, SAMPLE_TYPES } from "@/db/schema/field";
+import { LOCATION_SOURCES, SAMPLE_STATUSES, SAMPLE_TYPES } from "@/lib/vocabulary";
 import { ianaZone, isoInstant, latitude, longitude, optionalText } from "./common";
 
 export const SAMPLE_CODE_RE = /^[A-Z0-9][A-Z0-9-]{1,30}$/;

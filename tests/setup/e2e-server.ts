@@ -25,7 +25,7 @@ export default async function setup(project: TestProject) {
     DATABASE_URL: `file:${join(dir, "e2e.db")}`,
     LITHODEX_DATA_DIR: join(dir, "files"),
     BETTER_AUTH_URL: baseUrl,
-    NODE_ENV: "production",
+    NODE_ENV: "production" as const,
     LITHODEX_AUTH_RATE_LIMIT: "off",
   };
   const run = (cmd: string, args: string[]) => {

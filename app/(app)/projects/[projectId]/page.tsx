@@ -1,6 +1,6 @@
 import Link from "next/link";
 import { Card } from "@/components/ui/card";
-import { SAMPLE_STATUSES } from "@/db/schema/field";
+import { SAMPLE_STATUSES } from "@/lib/vocabulary";
 import { SAMPLE_STATUS_LABELS } from "@/lib/format";
 import { ROLE_LABELS } from "@/lib/dal/permissions";
 import { getProjectOverview } from "@/lib/dal/projects";

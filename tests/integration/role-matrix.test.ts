@@ -1,0 +1,89 @@
+import { beforeAll, describe, expect, test } from "vitest";
+import { GET as listProjects } from "@/app/api/projects/route";
+import { GET as getProject } from "@/app/api/projects/[projectId]/route";
+import { GET as listSamples, POST as createSample } from "@/app/api/projects/[projectId]/samples/route";
+import { GET as getSample, PATCH as patchSample } from "@/app/api/projects/[projectId]/samples/[sampleId]/route";
+import { getDb } from "@/db";
+import { samples, type ProjectRole } from "@/db/schema";
+import { PERMISSIONS, type Permission } from "@/lib/dal/permissions";
+import { call, makeWorld, type World } from "../helpers/app";
+
+/**
+ * Every project route × every role. The expected status comes from the permission table in
+ * lib/dal/permissions.ts: allowed → 2xx, member without the permission → 403, non-member → 404,
+ * no session → 401. Add a row here with each new route.
+ */
+interface RouteCase {
+  name: string;
+  // eslint-disable-next-line @typescript-eslint/no-explicit-any
+  handler: (req: Request, ctx: { params: Promise<any> }) => Promise<Response>;
+  method: string;
+  permission: Permission;
+  params: (w: World, fixture: Fixture) => Record<string, string>;
+  body?: (w: World, fixture: Fixture) => unknown;
+}
+interface Fixture {
+  sampleId: string;
+}
+
+const ROUTES: RouteCase[] = [
+  { name: "GET project", handler: getProject, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
+  { name: "GET samples", handler: listSamples, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
+  { name: "POST samples", handler: createSample, method: "POST", permission: "sample.write", params: (w) => ({ projectId: w.projectId }), body: () => ({ sampleType: "soil" }) },
+  { name: "GET sample", handler: getSample, method: "GET", permission: "project.read", params: (w, f) => ({ projectId: w.projectId, sampleId: f.sampleId }) },
+  {
+    name: "PATCH sample",
+    handler: patchSample,
+    method: "PATCH",
+    permission: "sample.write",
+    params: (w, f) => ({ projectId: w.projectId, sampleId: f.sampleId }),
+    body: () => ({ version: 1, description: "edited" }),
+  },
+];
+
+const ROLES: (ProjectRole | "admin" | "outsider")[] = ["lead", "field_geologist", "lab_analyst", "consultant", "admin", "outsider"];
+
+let w: World;
+beforeAll(async () => {
+  w = await makeWorld();
+});
+
+/** A fresh sample per call so PATCH with version 1 is always current. */
+async function fixture(): Promise<Fixture> {
+  const [s] = await getDb().insert(samples).values({ projectId: w.projectId, code: `RM-${crypto.randomUUID().slice(0, 8).toUpperCase()}`, sampleType: "chip" }).returning();
+  return { sampleId: s.id };
+}
+
+function expected(role: (typeof ROLES)[number], permission: Permission): number | "2xx" {
+  if (role === "outsider") return 404;
+  if (role === "admin") return "2xx";
+  return (PERMISSIONS[permission].roles as readonly string[]).includes(role) ? "2xx" : 403;
+}
+
+describe("role matrix: every route × every role", () => {
+  for (const route of ROUTES) {
+    for (const role of ROLES) {
+      const want = expected(role, route.permission);
+      test(`${route.name} as ${role} → ${want}`, async () => {
+        const f = await fixture();
+        const r = await call(route.handler, { method: route.method, params: route.params(w, f), cookie: w.cookies[role], body: route.body?.(w, f) });
+        if (want === "2xx") expect(r.status, JSON.stringify(r.json)).toBeGreaterThanOrEqual(200);
+        if (want === "2xx") expect(r.status).toBeLessThan(300);
+        else expect(r.status).toBe(want);
+      });
+    }
+    test(`${route.name} without a session → 401`, async () => {
+      const f = await fixture();
+      const r = await call(route.handler, { method: route.method, params: route.params(w, f), body: route.body?.(w, f) });
+      expect(r.status).toBe(401);
+      expect(r.json.error.code).toBe("unauthorized");
+    });
+  }
+
+  test("the project list shows only the caller's projects", async () => {
+    const outsider = await call(listProjects, { cookie: w.cookies.outsider });
+    expect(outsider.json.items.map((p: { id: string }) => p.id)).toEqual([w.otherProjectId]);
+    const admin = await call(listProjects, { cookie: w.cookies.admin });
+    expect(admin.json.items.map((p: { id: string }) => p.id)).toEqual(expect.arrayContaining([w.projectId, w.otherProjectId]));
+  });
+});
