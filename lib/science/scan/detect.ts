@@ -15,14 +15,15 @@ const SNIFF_LINES = 200;
 
 /**
  * Decide the format from the content (never the file name): a `data_` block with `_pd_`/`_diffrn` tags → pdCIF;
- * data lines containing `;` → CSV with `;` (decimal comma allowed); containing `,` → CSV with `,`; otherwise
- * whitespace-separated XY. Reads at most the first ~200 lines.
+ * most data lines containing `;` → CSV with `;` (decimal comma allowed); containing `,` → CSV with
+ * `,`; otherwise whitespace-separated XY. Reads at most the first ~200 lines.
  */
 export function detectFormat(text: string): DetectedFormat {
   let cif = false;
   let pdTags = false;
   let semicolons = 0;
   let commas = 0;
+  let plain = 0;
   let seen = 0;
   forEachLine(text, (raw) => {
     const line = raw.trim();
@@ -36,10 +37,12 @@ export function detectFormat(text: string): DetectedFormat {
     if (isCommentStart(line[0], false)) return;
     if (line.includes(";")) semicolons++;
     else if (line.includes(",")) commas++;
+    else plain++;
     if (++seen >= SNIFF_LINES) return false;
   });
   if (cif && pdTags) return { format: "pdcif" };
-  if (semicolons > 0 && semicolons >= commas) return { format: "csv", separator: ";" };
-  if (commas > 0) return { format: "csv", separator: "," };
+  // Majority of the sniffed lines decides; the minority lines then fail as mixed separators.
+  if (semicolons > 0 && semicolons >= commas && semicolons >= plain) return { format: "csv", separator: ";" };
+  if (commas > 0 && commas >= plain) return { format: "csv", separator: "," };
   return { format: "xy" };
 }

@@ -77,6 +77,9 @@ export function parseCsv(text: string, separator: CsvSeparator, limits: ScanLimi
     }
     if (!dataStarted) {
       const [kind] = readCell(first, decimalComma);
+      if (kind === CellKind.NotNumeric && cells.length === 1 && /^[+-]?\.?\d/.test(first)) {
+        throw new ScanParseError("MIXED_SEPARATORS", `numbers without "${separator}" between them`, { line: lineNo });
+      }
       if (kind === CellKind.NotNumeric) {
         if (cols === null && cells.length >= 2) {
           cols = columnsFromHeader(cells, lineNo);

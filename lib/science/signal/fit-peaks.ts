@@ -88,6 +88,10 @@ export interface FittedPeak {
   group: number;
   /** False when the fit hit the iteration limit or the covariance could not be computed. */
   converged: boolean;
+  /** Levenberg–Marquardt iterations (accepted steps) used by the group. */
+  iterations: number;
+  /** Points in the group's fitting window. */
+  points: number;
 }
 
 /** Result of {@link fitPeaks}. */
@@ -264,6 +268,19 @@ function fitGroup(
   const a = new Float64Array(p * p);
   const g = new Float64Array(p);
 
+  // Kα2 positions depend only on the parameters: computed once per evaluation, not per point.
+  const x2s = new Float64Array(k);
+  const dx2s = new Float64Array(k);
+  const prepare = (prm: Float64Array) => {
+    if (ratio === 0) return;
+    for (let j = 0; j < k; j++) {
+      const x0 = prm[4 * j];
+      const s = Math.min(1, q * Math.sin(x0 * DEG * 0.5));
+      x2s[j] = (2 * Math.asin(s)) / DEG;
+      dx2s[j] = s < 1 ? (q * Math.cos(x0 * DEG * 0.5)) / Math.cos(x2s[j] * DEG * 0.5) : 1;
+    }
+  };
+
   const modelAt = (prm: Float64Array, x: number, wantRow: boolean): number => {
     let f = 0;
     if (wantRow) row.fill(0);
@@ -281,13 +298,10 @@ function fitGroup(
         row[4 * j + 3] += grad[4];
       }
       if (ratio > 0) {
-        const s = Math.min(1, q * Math.sin(x0 * DEG * 0.5));
-        const x2 = (2 * Math.asin(s)) / DEG;
-        pseudoVoigtWithGradient(x, x2, ratio * ar, h, et, grad);
+        pseudoVoigtWithGradient(x, x2s[j], ratio * ar, h, et, grad);
         f += grad[0];
         if (wantRow) {
-          const dx2 = s < 1 ? (q * Math.cos(x0 * DEG * 0.5)) / Math.cos(x2 * DEG * 0.5) : 1;
-          row[4 * j] += grad[1] * dx2;
+          row[4 * j] += grad[1] * dx2s[j];
           row[4 * j + 1] += grad[2] * ratio;
           row[4 * j + 2] += grad[3];
           row[4 * j + 3] += grad[4];
@@ -306,6 +320,7 @@ function fitGroup(
   };
 
   const chi2Of = (prm: Float64Array, normal: boolean): number => {
+    prepare(prm);
     if (normal) {
       a.fill(0);
       g.fill(0);
@@ -342,7 +357,8 @@ function fitGroup(
   let converged = false;
   const trial = new Float64Array(npar);
   const mat = new Float64Array(p * p);
-  for (let it = 0; it < o.maxIterations && !converged; it++) {
+  let it = 0;
+  for (; it < o.maxIterations && !converged; it++) {
     let improved = false;
     while (lambda < 1e12) {
       mat.set(a);
@@ -359,12 +375,13 @@ function fitGroup(
       clamp(trial);
       const c2 = chi2Of(trial, false);
       if (c2 < chi2) {
-        const rel = (chi2 - c2) / Math.max(chi2, 1e-300);
+        // Converged when χ² falls by far less than one unit of (noise-scaled) χ²: parameter changes ≪ 1σ.
+        const drop = chi2 - c2;
         par.set(trial);
         chi2 = chi2Of(par, true);
         lambda = Math.max(lambda / 5, 1e-9);
         improved = true;
-        if (rel < 1e-9) converged = true;
+        if (drop < 1e-3 * Math.max(1, chi2 / Math.max(1, m - p))) converged = true;
         break;
       }
       lambda *= 4;
@@ -382,6 +399,7 @@ function fitGroup(
     return v >= 0 ? Math.sqrt(v) : NaN;
   };
   const out = new Float64Array(m);
+  prepare(par);
   for (let i = 0; i < m; i++) out[i] = modelAt(par, xs[i], false);
   const peaks = guesses.map((_, j) => {
     const fwhm = par[4 * j + 2];
@@ -399,6 +417,8 @@ function fitGroup(
       etaEsd: fitEta ? esdOf(4 * j + 3) : 0,
       chi2Reduced,
       converged: converged && cov !== null,
+      iterations: it,
+      points: m,
     };
   });
   return { peaks, model: out };

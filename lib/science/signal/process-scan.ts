@@ -330,6 +330,8 @@ export function processScan(scan: Scan, params: ProcessParams = {}): ProcessedSc
       chi2Reduced: NaN,
       group: -1,
       converged: false,
+      iterations: 0,
+      points: 0,
     }));
   }
   const maxHeight = fittedPeaks.reduce((m, f) => Math.max(m, f.height), 0);
