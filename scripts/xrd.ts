@@ -1,0 +1,216 @@
+/**
+ * Command-line entry of the diffraction core.
+ *
+ *   xrd identify FILE [--anode Cu|Co|Fe|Cr|Mo|Ag] [--wavelength Å] [--elements Si,O] [--json]
+ *   xrd pattern FILE.cif [--anode Cu] [--wavelength Å] [--json]
+ *
+ * JSON contract (stable):
+ *   identify → { wavelength, peaks:[{twoTheta,d,intensity,fwhm}], candidates:[{mineral,formula,score,confident}],
+ *                phases:[{mineral,wtPercent}] }
+ *   pattern  → { lines:[{h,k,l,d,twoTheta,intensity,multiplicity}] }
+ * Exit codes: 0 ok, 2 bad input or usage (one-line message on stderr, with the file's line number when known).
+ */
+import { readFileSync } from "node:fs";
+import { pathToFileURL } from "node:url";
+import { ANODES, isAnode, wavelengthsFor } from "@/lib/science/anodes";
+import { CifError, computePattern, parseCif } from "@/lib/science/crystal";
+import { identifyPhases } from "@/lib/science/identify";
+import { findLibraryPhase, REFERENCE_LIBRARY } from "@/lib/science/minerals";
+import { parseScan, ScanParseError } from "@/lib/science/scan";
+import { processScan } from "@/lib/science/signal";
+import type { Anode } from "@/lib/science/types";
+
+export const USAGE = `usage:
+  xrd identify FILE [--anode Cu|Co|Fe|Cr|Mo|Ag] [--wavelength Å] [--elements Si,O,...] [--json]
+      find candidate phases of a powder scan (XY/XYE, CSV or pdCIF) in the shipped reference library
+      --elements lists every element the phases may contain (include O, H, C where they may occur)
+  xrd pattern FILE.cif [--anode Cu] [--wavelength Å] [--json]
+      calculated powder pattern of a crystal structure (Bragg–Brentano, no monochromator, 2θ ≤ 90°)`;
+
+/** Bad input or usage: reported on one line, exit code 2. */
+export class CliError extends Error {
+  constructor(
+    message: string,
+    readonly showUsage = false,
+  ) {
+    super(message);
+    this.name = "CliError";
+  }
+}
+
+interface Parsed {
+  command: string;
+  file: string;
+  anode?: Anode;
+  wavelength?: number;
+  elements?: string[];
+  json: boolean;
+}
+
+const SYMBOL = /^[A-Z][a-z]?$/;
+
+/** Parse the arguments after the script name. */
+export function parseArgs(argv: readonly string[]): Parsed {
+  const [command, ...rest] = argv;
+  if (command !== "identify" && command !== "pattern") {
+    throw new CliError(command ? `unknown command "${command}"` : "no command given", true);
+  }
+  const out: Parsed = { command, file: "", json: false };
+  const allowed = command === "identify" ? ["--anode", "--wavelength", "--elements", "--json"] : ["--anode", "--wavelength", "--json"];
+  for (let i = 0; i < rest.length; i++) {
+    const arg = rest[i];
+    const [flag, inline] = arg.startsWith("--") && arg.includes("=") ? [arg.slice(0, arg.indexOf("=")), arg.slice(arg.indexOf("=") + 1)] : [arg, undefined];
+    if (!flag.startsWith("--")) {
+      if (out.file) throw new CliError(`unexpected argument "${arg}" (one FILE only)`, true);
+      out.file = arg;
+      continue;
+    }
+    if (!allowed.includes(flag)) throw new CliError(`unknown option "${flag}" for ${command}`, true);
+    if (flag === "--json") {
+      out.json = true;
+      continue;
+    }
+    const value = inline ?? rest[++i];
+    if (value === undefined || value.startsWith("--")) throw new CliError(`${flag} needs a value`);
+    if (flag === "--anode") {
+      const a = value.charAt(0).toUpperCase() + value.slice(1).toLowerCase();
+      if (!isAnode(a)) throw new CliError(`--anode "${value}" is not one of ${ANODES.join(", ")}`);
+      out.anode = a;
+    } else if (flag === "--wavelength") {
+      const w = Number(value);
+      if (!(Number.isFinite(w) && w > 0.1 && w < 5)) throw new CliError(`--wavelength "${value}" must be a number of ångström between 0.1 and 5`);
+      out.wavelength = w;
+    } else {
+      const list = value.split(",").map((s) => s.trim()).filter(Boolean);
+      const bad = list.find((s) => !SYMBOL.test(s.charAt(0).toUpperCase() + s.slice(1).toLowerCase()));
+      if (list.length === 0 || bad !== undefined) throw new CliError(`--elements "${value}": "${bad ?? ""}" is not an element symbol`);
+      out.elements = list.map((s) => s.charAt(0).toUpperCase() + s.slice(1).toLowerCase());
+    }
+  }
+  if (!out.file) throw new CliError(`${command} needs a FILE`, true);
+  return out;
+}
+
+function readText(file: string): string {
+  try {
+    return readFileSync(file, "utf8");
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code;
+    throw new CliError(`${file}: cannot read file${code ? ` (${code})` : ""}`);
+  }
+}
+
+const r = (x: number, digits: number): number => Math.round(x * 10 ** digits) / 10 ** digits;
+
+/** Result of `identify` in the stable JSON shape. */
+export interface IdentifyJson {
+  wavelength: number;
+  peaks: { twoTheta: number; d: number; intensity: number; fwhm: number }[];
+  candidates: { mineral: string; formula: string; score: number; confident: boolean }[];
+  phases: { mineral: string; wtPercent: number | null }[];
+}
+
+function runIdentify(args: Parsed): { json: IdentifyJson; text: string } {
+  const text = readText(args.file);
+  let scan;
+  try {
+    scan = parseScan(text);
+  } catch (e) {
+    if (e instanceof ScanParseError || e instanceof RangeError || e instanceof TypeError) throw new CliError(`${args.file}: ${e.message}`);
+    throw e;
+  }
+  let processed;
+  try {
+    processed = processScan(scan, { anode: args.anode, wavelength: args.wavelength });
+  } catch (e) {
+    if (e instanceof RangeError || e instanceof TypeError) throw new CliError(`${args.file}: ${e.message}`);
+    throw e;
+  }
+  const n = scan.twoTheta.length;
+  const result = identifyPhases(processed.peaks, REFERENCE_LIBRARY, {
+    wavelength: processed.wavelength,
+    twoThetaRange: [scan.twoTheta[0], scan.twoTheta[n - 1]],
+    elements: args.elements ? { allowed: args.elements } : undefined,
+  });
+  const json: IdentifyJson = {
+    wavelength: processed.wavelength,
+    peaks: processed.peaks.map((p) => ({ twoTheta: r(p.twoTheta, 4), d: r(p.d, 5), intensity: r(p.intensity, 2), fwhm: r(p.fwhm, 4) })),
+    candidates: result.candidates.map((c) => ({ mineral: c.mineral, formula: c.formula, score: c.score, confident: c.confident })),
+    phases: result.phases.map((p) => ({ mineral: p.mineral, wtPercent: p.wtPercent })),
+  };
+  const out: string[] = [];
+  out.push(`${args.file}: ${n} points, ${scan.twoTheta[0]}–${scan.twoTheta[n - 1]}° 2θ, λ = ${processed.wavelength} Å`);
+  for (const w of processed.warnings) out.push(`note: ${w}`);
+  out.push("", `Peaks (${json.peaks.length})`, "     2θ (°)      d (Å)   I (%)   FWHM (°)");
+  for (const p of json.peaks) out.push(`${p.twoTheta.toFixed(3).padStart(11)} ${p.d.toFixed(4).padStart(10)} ${p.intensity.toFixed(1).padStart(7)} ${p.fwhm.toFixed(3).padStart(10)}`);
+  out.push("", "Candidates (ranked)", "  score  confident  mineral               formula");
+  if (json.candidates.length === 0) out.push("  (none)");
+  for (const c of json.candidates.slice(0, 15))
+    out.push(`  ${c.score.toFixed(2).padStart(5)}  ${(c.confident ? "yes" : "no").padEnd(9)}  ${c.mineral.padEnd(20)}  ${c.formula}`);
+  out.push("", "Phases");
+  if (result.noConfidentMatch) out.push("  no confident match (amorphous material, a phase not in the library, or too few peaks)");
+  for (const p of result.phases) out.push(`  ${p.mineral.padEnd(20)} ${p.wtPercent === null ? "wt% n/a" : `${p.wtPercent.toFixed(1).padStart(5)} wt%`}`);
+  if (result.unexplainedPeaks.length > 0)
+    out.push(`  unexplained peaks at ${result.unexplainedPeaks.map((p) => p.twoTheta.toFixed(2)).join(", ")}° 2θ`);
+  for (const p of result.phases) {
+    const hazards = findLibraryPhase(p.referenceId)?.hazards ?? [];
+    if (hazards.includes("crystalline_silica"))
+      out.push(`caution: ${p.mineral} is crystalline silica; respirable dust is a health hazard — follow local regulations for handling and grinding.`);
+    if (hazards.includes("asbestos"))
+      out.push(`caution: ${p.mineral} may be an asbestos-group mineral; confirm by accredited methods and handle per local regulations.`);
+    if (hazards.includes("radioactive")) out.push(`caution: ${p.mineral} is radioactive; follow local radiation-protection rules.`);
+  }
+  out.push(
+    "",
+    "Ranked candidates are suggestions, not an identification; wt% are semi-quantitative (RIR method, Chung 1974; assumes no amorphous or unidentified content).",
+  );
+  return { json, text: out.join("\n") };
+}
+
+/** Result of `pattern` in the stable JSON shape. */
+export interface PatternJson {
+  lines: { h: number; k: number; l: number; d: number; twoTheta: number; intensity: number; multiplicity: number }[];
+}
+
+function runPattern(args: Parsed): { json: PatternJson; text: string } {
+  const text = readText(args.file);
+  const wavelength = args.wavelength ?? wavelengthsFor(args.anode ?? "Cu").kAlpha1;
+  let lines;
+  try {
+    lines = computePattern(parseCif(text), { wavelength, minIntensity: 0.5 });
+  } catch (e) {
+    if (e instanceof CifError || e instanceof RangeError || e instanceof TypeError) throw new CliError(`${args.file}: ${e.message}`);
+    throw e;
+  }
+  const json: PatternJson = {
+    lines: lines.map((l) => ({ h: l.h, k: l.k, l: l.l, d: r(l.d, 5), twoTheta: r(l.twoTheta, 4), intensity: r(l.intensity, 2), multiplicity: l.multiplicity })),
+  };
+  const out = [`${args.file}: λ = ${wavelength} Å, ${json.lines.length} lines (I ≥ 0.5)`, "    h   k   l      d (Å)     2θ (°)   I (%)   m"];
+  for (const l of json.lines)
+    out.push(`${[l.h, l.k, l.l].map((v) => String(v).padStart(4)).join("")} ${l.d.toFixed(5).padStart(10)} ${l.twoTheta.toFixed(3).padStart(10)} ${l.intensity.toFixed(1).padStart(7)} ${String(l.multiplicity).padStart(3)}`);
+  out.push("", "Calculated for Bragg–Brentano geometry, no monochromator, random orientation.");
+  return { json, text: out.join("\n") };
+}
+
+/**
+ * Run the CLI.
+ * @returns exit code and the text for stdout / stderr
+ */
+export function runCli(argv: readonly string[]): { code: number; stdout: string; stderr: string } {
+  if (argv.length === 0 || argv[0] === "--help" || argv[0] === "-h" || argv[0] === "help") return { code: argv.length === 0 ? 2 : 0, stdout: argv.length ? `${USAGE}\n` : "", stderr: argv.length ? "" : `${USAGE}\n` };
+  try {
+    const args = parseArgs(argv);
+    const { json, text } = args.command === "identify" ? runIdentify(args) : runPattern(args);
+    return { code: 0, stdout: `${args.json ? JSON.stringify(json, null, 2) : text}\n`, stderr: "" };
+  } catch (e) {
+    if (e instanceof CliError) return { code: 2, stdout: "", stderr: `xrd: ${e.message.replace(/\s*\n\s*/g, " ")}\n${e.showUsage ? `${USAGE}\n` : ""}` };
+    throw e;
+  }
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  const { code, stdout, stderr } = runCli(process.argv.slice(2));
+  if (stdout) process.stdout.write(stdout);
+  if (stderr) process.stderr.write(stderr);
+  process.exitCode = code;
+}
