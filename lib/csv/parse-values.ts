@@ -47,26 +47,35 @@ export function parseEnum(raw: string, values: Record<string, string>): CellResu
 
 /** Whether the runtime knows an IANA zone name. */
 export function isKnownZone(tz: string): boolean {
-  try {
-    new Intl.DateTimeFormat("en", { timeZone: tz });
-    return true;
-  } catch {
-    return false;
+  let known = zoneCache.get(tz);
+  if (known === undefined) {
+    try {
+      new Intl.DateTimeFormat("en", { timeZone: tz });
+      known = true;
+    } catch {
+      known = false;
+    }
+    if (zoneCache.size < 1000) zoneCache.set(tz, known);
   }
+  return known;
+}
+
+/** Building an Intl formatter costs ~0.1 ms; an import asks about the same few zones thousands of times. */
+const zoneCache = new Map<string, boolean>();
+const formatterCache = new Map<string, Intl.DateTimeFormat>();
+
+function zoneFormatter(tz: string): Intl.DateTimeFormat {
+  let f = formatterCache.get(tz);
+  if (!f) {
+    f = new Intl.DateTimeFormat("en-US", { timeZone: tz, hourCycle: "h23", year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", second: "2-digit" });
+    if (formatterCache.size < 100) formatterCache.set(tz, f);
+  }
+  return f;
 }
 
 /** Offset of `tz` from UTC at instant `utcMs`, in milliseconds (positive east of Greenwich). */
 function zoneOffsetMs(utcMs: number, tz: string): number {
-  const parts = new Intl.DateTimeFormat("en-US", {
-    timeZone: tz,
-    hourCycle: "h23",
-    year: "numeric",
-    month: "2-digit",
-    day: "2-digit",
-    hour: "2-digit",
-    minute: "2-digit",
-    second: "2-digit",
-  }).formatToParts(new Date(utcMs));
+  const parts = zoneFormatter(tz).formatToParts(new Date(utcMs));
   const n = (t: string) => Number(parts.find((p) => p.type === t)?.value);
   const asUtc = Date.UTC(n("year"), n("month") - 1, n("day"), n("hour"), n("minute"), n("second"));
   return asUtc - Math.floor(utcMs / 1000) * 1000;
