@@ -9,7 +9,6 @@ let w: World;
 let stationCode: string;
 beforeAll(async () => {
   w = await makeWorld();
-  stationCode = `TP${w.projectId ? "" : ""}`;
   const [p] = await getDb().select({ code: projects.code }).from(projects).where(eq(projects.id, w.projectId));
   stationCode = `${p.code}-ST-001`; // the station makeWorld() creates
 });
