@@ -25,7 +25,7 @@ export interface DoubletModel {
 export interface FitPeaksOptions {
   /**
    * Half-width of each peak's fitting window, in multiples of its FWHM (the Kα2 separation is added on the right).
-   * @default 3
+   * @default 4
    */
   windowFwhm?: number;
   /**
@@ -138,7 +138,7 @@ export function fitPeaks(
   options: FitPeaksOptions = {},
 ): FitPeaksResult {
   const {
-    windowFwhm = 3,
+    windowFwhm = 4,
     maxGroupSize = 6,
     maxIterations = 60,
     baseline = "linear",

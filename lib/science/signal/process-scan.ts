@@ -66,7 +66,7 @@ export interface ProcessParams {
   fitting?: {
     /** Fit pseudo-Voigt profiles; when false detected peaks are reported with estimated areas. @default true */
     enabled?: boolean;
-    /** @default 3 */
+    /** Half-width of each fitting window in FWHMs. @default 4 */
     windowFwhm?: number;
     /** @default 6 */
     maxGroupSize?: number;
@@ -221,7 +221,7 @@ export function resolveProcessParams(scan: Scan, params: ProcessParams = {}): { 
     },
     fitting: {
       enabled: fit.enabled ?? true,
-      windowFwhm: fit.windowFwhm ?? 3,
+      windowFwhm: fit.windowFwhm ?? 4,
       maxGroupSize: fit.maxGroupSize ?? 6,
       maxIterations: fit.maxIterations ?? 60,
       baseline: fit.baseline ?? "linear",
