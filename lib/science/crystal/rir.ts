@@ -36,7 +36,9 @@ export function referenceIntensityRatioDetailed(
   corundumStructure: CifStructure,
   options: RirOptions = {},
 ): RirResult {
-  const { corundumHkl = { h: 1, k: 1, l: 3 }, minIntensity: _ignored, ...patternOptions } = options;
+  // minIntensity is irrelevant here: the strongest line and 113 are always kept
+  const { corundumHkl = { h: 1, k: 1, l: 3 }, ...rest } = options;
+  const patternOptions = { ...rest, minIntensity: 0 };
   const a = computePatternDetailed(structure, patternOptions);
   const c = computePatternDetailed(corundumStructure, patternOptions);
   if (a.lines.length === 0) throw new RangeError("the phase has no lines in the computed range");
