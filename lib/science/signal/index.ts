@@ -1,7 +1,7 @@
 /** Scan processing: smoothing, background, Kα2 stripping, peak detection and fitting, corrections, Scherrer size. */
 export { processScan, resolveProcessParams, type ProcessParams, type ProcessedScan, type ResolvedProcessParams } from "./process-scan";
 export { smoothSavitzkyGolay, savitzkyGolayNoiseGain, windowForFwhm, type SmoothingOptions } from "./smoothing";
-export { snipBackground, type SnipOptions } from "./background";
+export { snipBackground, correctClippingBias, type SnipOptions, type ClippingBiasOptions } from "./background";
 export { stripKAlpha2, kAlpha2Separation, kAlpha2SeparationApprox, type KAlpha2Options } from "./kalpha2";
 export { countingVariance, type NoiseOptions, type NoiseEstimate } from "./noise";
 export { detectPeaks, type DetectPeaksOptions, type DetectedPeak } from "./detect-peaks";

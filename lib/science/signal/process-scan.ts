@@ -345,7 +345,7 @@ export function processScan(scan: Scan, params: ProcessParams = {}): ProcessedSc
       height: f.height,
       area: f.area,
       fwhm: f.fwhm,
-      intensity: maxHeight > 0 ? (100 * f.height) / maxHeight : 0,
+      intensity: maxHeight > 0 ? (f.height / maxHeight) * 100 : 0,
     };
     if (Number.isFinite(f.fwhmEsd)) peak.fwhmEsd = f.fwhmEsd;
     if (Number.isFinite(f.eta)) peak.eta = f.eta;

@@ -160,3 +160,20 @@ describe("property: round trip write → parse returns the scan", () => {
     );
   });
 });
+
+describe("property: each parser, forced by the format option, throws only ScanParseError", () => {
+  test.each(["xy", "csv", "pdcif"] as const)("%s", (format) => {
+    fc.assert(
+      fc.property(scanArb, fc.integer({ min: 0, max: writers.length - 1 }), fc.array(mutation, { maxLength: 3 }), (scan, w, ms) => {
+        let text = writers[w](scan);
+        for (const m of ms) text = mutate(text, m);
+        try {
+          checkInvariants(parseScan(text, { format }));
+        } catch (e) {
+          if (!(e instanceof ScanParseError)) throw e;
+        }
+      }),
+      { numRuns: 200, seed: 5 },
+    );
+  });
+});

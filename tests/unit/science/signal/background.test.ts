@@ -1,6 +1,6 @@
 import { describe, expect, test } from "vitest";
-import { snipBackground } from "@/lib/science/signal";
-import { correctClippingBias } from "@/lib/science/signal/background";
+import { correctClippingBias, snipBackground } from "@/lib/science/signal";
+
 import { pv, synthScan } from "./synthetic";
 
 // SNIP as defined by Ryan et al. (1988, NIM B 34, 396) and Morháč et al. (1997, NIM A 401, 113), DOMAIN §3.3.
