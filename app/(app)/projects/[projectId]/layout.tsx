@@ -1,19 +1,14 @@
-import { notFound } from "next/navigation";
 import { AppHeader } from "@/components/layout/app-header";
 import { ProjectNav } from "@/components/layout/project-nav";
 import { projectSections } from "@/components/layout/project-sections";
-import { AppError } from "@/lib/dal/errors";
 import { ROLE_LABELS } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
-import { currentActor } from "@/lib/dal/session";
+import { currentActor, orNotFound } from "@/lib/dal/session";
 
 export default async function ProjectLayout({ children, params }: { children: React.ReactNode; params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;
   const actor = await currentActor();
-  const project = await getProject(actor, projectId).catch((err) => {
-    if (err instanceof AppError && (err.code === "not_found" || err.code === "forbidden")) notFound();
-    throw err;
-  });
+  const project = await orNotFound(getProject(actor, projectId));
   const items = projectSections(projectId, project.role);
   return (
     <>

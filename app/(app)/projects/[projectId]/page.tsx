@@ -4,12 +4,12 @@ import { SAMPLE_STATUSES } from "@/lib/vocabulary";
 import { SAMPLE_STATUS_LABELS } from "@/lib/format";
 import { ROLE_LABELS } from "@/lib/dal/permissions";
 import { getProjectOverview } from "@/lib/dal/projects";
-import { currentActor } from "@/lib/dal/session";
+import { currentActor, orNotFound } from "@/lib/dal/session";
 
 export default async function ProjectOverviewPage({ params }: { params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;
   const actor = await currentActor();
-  const { project, counts, byStatus, members } = await getProjectOverview(actor, projectId);
+  const { project, counts, byStatus, members } = await orNotFound(getProjectOverview(actor, projectId));
   const tiles = [
     { label: "Stations", value: counts.stations },
     { label: "Samples", value: counts.samples, href: `/projects/${projectId}/samples` },
