@@ -24,6 +24,13 @@ export const submissions = sqliteTable(
     labEmail: text("lab_email"),
     status: text("status", { enum: SUBMISSION_STATUSES }).notNull().default("draft"),
     waybill: text("waybill"),
+    /** QA/QC samples inserted in the batch (duplicates, standards, blanks), as the packing list states them. */
+    qaqcNote: text("qaqc_note"),
+    /** The lab's own batch / job number, given at intake. */
+    labReference: text("lab_reference"),
+    receivedAt: integer("received_at", { mode: "timestamp_ms" }),
+    /** Set once when every sample has signed-off results (the leads are e-mailed then). */
+    reportedAt: integer("reported_at", { mode: "timestamp_ms" }),
     createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
     sentAt: integer("sent_at", { mode: "timestamp_ms" }),
     createdAt: createdAt(),
@@ -70,6 +77,10 @@ export const custodyEvents = sqliteTable(
     condition: text("condition"),
     weightKg: real("weight_kg"),
     note: text("note"),
+    /** Courier waybill / consignment number of a dispatch. */
+    waybill: text("waybill"),
+    /** Who took the sample over (courier, lab reception, store), when the event is a hand-over. */
+    handedTo: text("handed_to"),
     createdAt: createdAt(),
   },
   (t) => [
