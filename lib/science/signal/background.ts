@@ -99,18 +99,32 @@ export function correctClippingBias(
   const n = y.length;
   const z = new Float64Array(n);
   for (let i = 0; i < n; i++) z[i] = (y[i] - background[i]) / (sigma[i] > 0 ? sigma[i] : 1);
-  let center = median(z, Infinity, 0);
-  for (let k = 0; k < passes; k++) center = median(z, center + clipSigma, center - 10 * clipSigma);
+  // Sort once; each clipped median is then the middle of a contiguous range found by binary search.
+  const sorted = z.slice().sort();
+  let center = sorted[n >> 1];
+  for (let k = 0; k < passes; k++) center = clippedMedian(sorted, center - 10 * clipSigma, center + clipSigma);
   const offset = Number.isFinite(center) && center > 0 ? center : 0;
   const out = new Float64Array(n);
   for (let i = 0; i < n; i++) out[i] = background[i] + offset * (sigma[i] > 0 ? sigma[i] : 1);
   return { background: out, offsetSigma: offset };
 }
 
-function median(z: Float64Array, upper: number, lower: number): number {
-  const kept: number[] = [];
-  for (let i = 0; i < z.length; i++) if (z[i] <= upper && z[i] >= lower) kept.push(z[i]);
-  if (kept.length === 0) return NaN;
-  const a = Float64Array.from(kept).sort();
-  return a[a.length >> 1];
+/** First index whose value is ≥ v (`inclusive`) or > v (not inclusive) in a sorted array. */
+function searchSorted(a: Float64Array, v: number, inclusive: boolean): number {
+  let lo = 0;
+  let hi = a.length;
+  while (lo < hi) {
+    const mid = (lo + hi) >>> 1;
+    if (a[mid] < v || (!inclusive && a[mid] === v)) lo = mid + 1;
+    else hi = mid;
+  }
+  return lo;
+}
+
+/** Median of the sorted values inside [lower, upper]. */
+function clippedMedian(sorted: Float64Array, lower: number, upper: number): number {
+  const a = searchSorted(sorted, lower, true);
+  const b = searchSorted(sorted, upper, false) - 1;
+  if (b < a) return NaN;
+  return sorted[(a + b) >> 1];
 }
