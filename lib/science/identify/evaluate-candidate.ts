@@ -42,6 +42,9 @@ const LOG_CAP = Math.log(4);
 const OVER_WEIGHT = 0.3;
 // Peaks already explained by accepted phases count as available for scaling only above this residual fraction.
 const AVAILABLE_FRACTION = 0.2;
+// A matched peak is credited as explained up to this multiple of the predicted intensity (preferred orientation
+// can raise a line several-fold; DOMAIN §3.7).
+export const EXPLAIN_FACTOR = 3;
 
 /**
  * Score one candidate.
@@ -199,12 +202,12 @@ export function evaluateCandidate(
       intW += sum;
       intPen += sum * pen;
     }
-    if (residual[j] > AVAILABLE_FRACTION * oi[j]) explained += Math.min(residual[j], pred);
+    if (residual[j] > AVAILABLE_FRACTION * oi[j]) explained += Math.min(residual[j], EXPLAIN_FACTOR * pred);
   }
   const position = posW > 0 ? posSum / posW : 0;
   const intensity = intW > 0 ? 1 - intPen / intW : 0;
   const observed = residualTotal > 0 ? Math.min(1, explained / residualTotal) : 0;
-  const score = Math.sqrt(position) * reference * Math.sqrt(intensity) * Math.sqrt(observed);
+  const score = Math.sqrt(position) * reference * intensity * Math.sqrt(observed);
   return {
     score,
     parts: { position, intensity, reference, observed },

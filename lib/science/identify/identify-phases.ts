@@ -7,7 +7,7 @@
  */
 import type { Peak, ReferencePattern } from "@/lib/science/types";
 import { normalizeElementFilter, passesElementFilter } from "./element-filter";
-import { evaluateCandidate, type CandidateEvaluation } from "./evaluate-candidate";
+import { EXPLAIN_FACTOR, evaluateCandidate, type CandidateEvaluation } from "./evaluate-candidate";
 import { fitPhaseScales, type PhaseContribution } from "./fit-phase-scales";
 import { prepareObservedPeaks } from "./observed-peaks";
 import { scanReferenceLines, type ScanReferenceLines } from "./reference-lines";
@@ -25,8 +25,9 @@ import type {
 
 const DEG = Math.PI / 180;
 const indexCache = new WeakMap<readonly ReferencePattern[], StrongLineIndex>();
-// A peak is explained once the accepted phases predict at least this fraction of it.
-const EXPLAINED_FRACTION = 0.5;
+// A peak is explained once the accepted phases predict at least this fraction of it (a factor EXPLAIN_FACTOR
+// below the observed intensity is tolerated, as in the figure of merit).
+const EXPLAINED_FRACTION = 1 / EXPLAIN_FACTOR;
 
 /**
  * Identify the crystalline phases of a processed scan.
