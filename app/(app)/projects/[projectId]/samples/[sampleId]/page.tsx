@@ -40,6 +40,9 @@ export default async function SamplePage({ params }: { params: Promise<{ project
         </h1>
         <Badge tone={s.status === "confirmed" ? "ok" : "brand"}>{SAMPLE_STATUS_LABELS[s.status]}</Badge>
         {s.suspectedAsbestos && <Badge tone="danger">Suspected asbestos — handle as hazardous</Badge>}
+        <Link href={`/projects/${projectId}/labels?ids=${s.id}`} className="no-print ml-auto text-sm font-medium text-brand hover:underline">
+          Print label
+        </Link>
       </div>
       <div className="grid gap-4 lg:grid-cols-2">
         <Card>
