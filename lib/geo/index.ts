@@ -1,0 +1,6 @@
+export * from "./angles";
+export * from "./coordinates";
+export * from "./distance";
+export * from "./dms";
+export * from "./structure";
+export * from "./utm";
