@@ -1,0 +1,4 @@
+export * from "./errors";
+export * from "./exif";
+export * from "./process";
+export * from "./sniff";
