@@ -15,6 +15,7 @@ export const PERMISSIONS = {
   "scan.write": { roles: ["lab_analyst"], description: "upload and process scans" },
   "phase.review": { roles: ["lab_analyst"], description: "accept or reject candidates and sign off scans" },
   "reference.import": { roles: ["lab_analyst"], description: "import reference structures (CIF) into the library" },
+  "tiles.manage": { roles: ["lead", "field_geologist"], description: "upload and delete map layers (MBTiles tile packages)" },
   "export.read": { roles: ["lead", "field_geologist", "lab_analyst", "consultant"], description: "export registers and reports" },
   "share.manage": { roles: ["lead"], description: "create and revoke read-only share links" },
   "audit.read": { roles: ["lead", "consultant"], description: "read the project's audit log" },
