@@ -27,6 +27,8 @@ export const stations = sqliteTable(
     elevationRef: text("elevation_ref", { enum: ELEVATION_REFS }),
     horizontalAccuracyM: real("horizontal_accuracy_m"),
     locationSource: text("location_source", { enum: LOCATION_SOURCES }),
+    /** Instant of the position fix, ISO 8601 UTC (GNSS or browser geolocation timestamp). */
+    locationFixedAt: text("location_fixed_at"),
     description: text("description"),
     lithology: text("lithology"),
     observedAt: text("observed_at"),
@@ -62,7 +64,21 @@ export const structures = sqliteTable(
     dip: real("dip"),
     trend: real("trend"),
     plunge: real("plunge"),
-    convention: text("convention", { enum: ["rhr", "dip_dipdir", "trend_plunge"] }).notNull(),
+    convention: text("convention", { enum: ["rhr", "dip_dipdir", "trend_plunge", "rake"] }).notNull(),
+    /** Rake (pitch) in degrees from the plane's RHR strike, when a lineation was measured as a rake. */
+    rake: real("rake"),
+    /** The plane a lineation was measured on (the lineation must lie in it). */
+    planeId: text("plane_id"),
+    /** Fabric generation, e.g. S0, S1, L2. */
+    generation: text("generation"),
+    overturned: integer("overturned", { mode: "boolean" }).notNull().default(false),
+    quality: text("quality", { enum: ["good", "fair", "poor"] }),
+    /** Azimuth as read on the compass (dip direction, strike or trend), before any declination. */
+    rawAzimuth: real("raw_azimuth"),
+    /** Magnetic declination, degrees, east positive; true = magnetic + declination. */
+    declinationDeg: real("declination_deg"),
+    /** Whether the stored azimuths have the declination applied (true north). */
+    declinationApplied: integer("declination_applied", { mode: "boolean" }).notNull().default(false),
     note: text("note"),
     createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
     createdAt: createdAt(),
@@ -107,8 +123,14 @@ export const samples = sqliteTable(
     lat: real("lat"),
     lon: real("lon"),
     elevationM: real("elevation_m"),
+    /** What the elevation is measured from: mean sea level (maps) or the WGS84 ellipsoid (raw GNSS). */
+    elevationRef: text("elevation_ref", { enum: ELEVATION_REFS }),
     horizontalAccuracyM: real("horizontal_accuracy_m"),
     locationSource: text("location_source", { enum: LOCATION_SOURCES }),
+    /** Instant of the position fix, ISO 8601 UTC. */
+    locationFixedAt: text("location_fixed_at"),
+    /** Fields that depend on the sample type (hole ID and depths for core, horizon for soil, …); see lib/validation/sample-details.ts. */
+    typeDetails: text("type_details", { mode: "json" }).$type<Record<string, unknown>>(),
     storageLocation: text("storage_location"),
     status: text("status", { enum: SAMPLE_STATUSES }).notNull().default("collected"),
     suspectedAsbestos: integer("suspected_asbestos", { mode: "boolean" }).notNull().default(false),
@@ -154,10 +176,16 @@ export const photos = sqliteTable(
     width: integer("width"),
     height: integer("height"),
     takenAt: text("taken_at"),
+    /** EXIF DateTimeOriginal as local wall time (no zone), and its OffsetTimeOriginal when present. */
+    takenLocal: text("taken_local"),
+    takenOffset: text("taken_offset"),
     gpsLat: real("gps_lat"),
     gpsLon: real("gps_lon"),
     gpsAltitudeM: real("gps_altitude_m"),
+    gpsHErrorM: real("gps_h_error_m"),
     imgDirection: real("img_direction"),
+    /** T (true north) or M (magnetic north) */
+    imgDirectionRef: text("img_direction_ref"),
     orientation: integer("orientation"),
     caption: text("caption"),
     uploadedBy: text("uploaded_by").references(() => user.id, { onDelete: "set null" }),
