@@ -1,6 +1,7 @@
 import { z } from "zod";
-import { LOCATION_SOURCES, SAMPLE_STATUSES, SAMPLE_TYPES } from "@/lib/vocabulary";
+import { ELEVATION_REFS, LOCATION_SOURCES, SAMPLE_STATUSES, SAMPLE_TYPES } from "@/lib/vocabulary";
 import { ianaZone, isoInstant, latitude, longitude, optionalText } from "./common";
+import { sampleDetailsSchema } from "./sample-details";
 
 export const SAMPLE_CODE_RE = /^[A-Z0-9][A-Z0-9-]{1,30}$/;
 /** IGSN: a DOI-style "10.xxxx/SUFFIX" (optionally with igsn: or the doi.org prefix) or a legacy 9-character code. */
@@ -21,8 +22,12 @@ const sampleFields = {
   lat: latitude.nullable().optional(),
   lon: longitude.nullable().optional(),
   elevationM: z.number().min(-500, "Elevation below −500 m is implausible.").max(9000, "Elevation above 9000 m is implausible.").nullable().optional(),
+  elevationRef: z.enum(ELEVATION_REFS, { error: "Elevation reference is msl (mean sea level) or ellipsoid (WGS84)." }).nullable().optional(),
   horizontalAccuracyM: z.number().min(0, "Accuracy cannot be negative.").max(100000).nullable().optional(),
   locationSource: z.enum(LOCATION_SOURCES).nullable().optional(),
+  locationFixedAt: isoInstant.nullable().optional(),
+  /** Fields of the sample type (DOMAIN.md §2.2); `kind` must equal sampleType. */
+  typeDetails: sampleDetailsSchema.nullable().optional(),
   storageLocation: optionalText(200),
   status: z.enum(SAMPLE_STATUSES).optional(),
   suspectedAsbestos: z.boolean().optional(),
@@ -31,19 +36,23 @@ const sampleFields = {
 
 const bothOrNeither = (v: { lat?: number | null; lon?: number | null }) => (v.lat == null) === (v.lon == null);
 const coordMessage = { message: "Give both latitude and longitude, or neither.", path: ["lon"] };
+const detailsMatchType = (v: { sampleType?: string; typeDetails?: { kind: string } | null }) => !v.typeDetails || !v.sampleType || v.typeDetails.kind === v.sampleType;
+const detailsMessage = { message: "These details belong to another sample type; change the type or clear them.", path: ["typeDetails"] };
 
 /** Create: the code is optional (the project sequence issues one). */
 export const sampleCreateSchema = z
   .object({ ...sampleFields, code: sampleFields.code.optional() })
   .strict()
-  .refine(bothOrNeither, coordMessage);
+  .refine(bothOrNeither, coordMessage)
+  .refine(detailsMatchType, detailsMessage);
 
 /** Patch: any subset of fields, plus the version the client read (optimistic concurrency). */
 export const samplePatchSchema = z
   .object({ ...sampleFields, version: z.number().int().min(1, "version is required.") })
   .partial()
   .required({ version: true })
-  .strict();
+  .strict()
+  .refine(detailsMatchType, detailsMessage);
 
 export type SampleCreateInput = z.infer<typeof sampleCreateSchema>;
 export type SamplePatchInput = z.infer<typeof samplePatchSchema>;
