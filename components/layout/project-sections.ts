@@ -7,5 +7,6 @@ export function projectSections(projectId: string, role: ProjectRole): { href: s
   return [
     { href: base, label: "Overview" },
     { href: `${base}/samples`, label: "Samples" },
+    { href: `${base}/map`, label: "Map" },
   ];
 }
