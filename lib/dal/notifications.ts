@@ -1,7 +1,7 @@
 import "server-only";
 import { and, eq, inArray, isNull, ne, sql } from "drizzle-orm";
 import { getDb } from "@/db";
-import { projects, samples, scans, submissionSamples, submissions, user } from "@/db/schema";
+import { projects, samples, submissionSamples, submissions, user } from "@/db/schema";
 import { appBaseUrl, sendMail, signOffMail, submissionReportedMail } from "@/lib/mail";
 import { STATUS_RANK } from "@/lib/validation/custody";
 import { audit } from "./audit";
@@ -63,7 +63,8 @@ export async function notifySignOff({ projectId, scanId, sampleId, signedOffBy }
     const counted = await db
       .select({
         sampleId: submissionSamples.sampleId,
-        signed: sql<number>`(select count(*) from ${scans} where ${scans.sampleId} = ${submissionSamples.sampleId} and (${scans.status} = 'signed_off' or ${scans.signedOffAt} is not null))`,
+        // Qualified by hand: drizzle leaves column names bare inside sql`` subqueries.
+        signed: sql<number>`(select count(*) from "scans" sc where sc."sample_id" = "submission_samples"."sample_id" and (sc."status" = 'signed_off' or sc."signed_off_at" is not null))`,
       })
       .from(submissionSamples)
       .where(and(eq(submissionSamples.submissionId, sub.id), sql`coalesce(${submissionSamples.intakeCondition}, '') <> 'missing'`));

@@ -62,8 +62,9 @@ export async function listSubmissions(actor: Actor, projectId: string, rawQuery:
       reportedAt: submissions.reportedAt,
       createdAt: submissions.createdAt,
       createdByName: user.name,
-      sampleCount: sql<number>`(select count(*) from ${submissionSamples} where ${submissionSamples.submissionId} = ${submissions.id})`,
-      hazardCount: sql<number>`(select count(*) from ${submissionSamples} join ${samples} on ${samples.id} = ${submissionSamples.sampleId} where ${submissionSamples.submissionId} = ${submissions.id} and ${samples.suspectedAsbestos} = 1)`,
+      // Qualified by hand: drizzle leaves column names bare inside sql`` subqueries.
+      sampleCount: sql<number>`(select count(*) from "submission_samples" ss where ss."submission_id" = "submissions"."id")`,
+      hazardCount: sql<number>`(select count(*) from "submission_samples" ss join "samples" sa on sa."id" = ss."sample_id" where ss."submission_id" = "submissions"."id" and sa."suspected_asbestos" = 1)`,
     })
     .from(submissions)
     .leftJoin(user, eq(user.id, submissions.createdBy))
