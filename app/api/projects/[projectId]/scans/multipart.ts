@@ -1,0 +1,29 @@
+import "server-only";
+import { AppError } from "@/lib/dal/errors";
+import type { UploadedFile } from "@/lib/dal/scans";
+
+/** Text fields and files of a multipart/form-data request (files under any field name, in order). */
+export async function readMultipart(req: Request, fileFields: readonly string[] = ["file", "files"]): Promise<{ fields: Record<string, string>; files: UploadedFile[] }> {
+  const type = req.headers.get("content-type") ?? "";
+  if (!type.toLowerCase().startsWith("multipart/form-data")) {
+    throw new AppError("unsupported_media_type", "Send the files as multipart/form-data (a file upload form).");
+  }
+  let form: FormData;
+  try {
+    form = await req.formData();
+  } catch {
+    throw new AppError("bad_request", "The upload could not be read as multipart/form-data.");
+  }
+  const fields: Record<string, string> = {};
+  const files: UploadedFile[] = [];
+  for (const [name, value] of form.entries()) {
+    if (typeof value === "string") {
+      fields[name] = value;
+    } else if (fileFields.includes(name)) {
+      // Browsers send an empty, nameless part when no file was chosen.
+      if (value.size === 0 && !value.name) continue;
+      files.push({ name: value.name || "upload", bytes: new Uint8Array(await value.arrayBuffer()) });
+    }
+  }
+  return { fields, files };
+}
