@@ -26,5 +26,5 @@ export {
   type ClusterSummary,
   type StationPointProps,
 } from "./cluster";
-export { PHASE_FILTERS, REGISTER_FILTER_KEYS, filterParams, hasPhaseCriterion, phaseFilterShape, registerFilterSchema, type PhaseFilter, type RegisterFilter } from "./query";
+export { PHASE_FILTERS, REGISTER_FILTER_KEYS, filterParams, hasPhaseCriterion, queryObject, phaseFilterShape, registerFilterSchema, type PhaseFilter, type RegisterFilter } from "./query";
 export type { MineralOption, PhaseKind, PhaseMapData, PhaseMapStation, StationPhase } from "./types";

@@ -71,3 +71,12 @@ export function filterParams(input: URLSearchParams | Record<string, unknown>): 
 
 /** Whether the filter asks for a particular mineral or group. */
 export const hasPhaseCriterion = (q: Pick<RegisterFilter, "mineral" | "group">) => Boolean(q.mineral || q.group);
+
+/** A query string as a plain object for the DAL (empty values dropped; the DAL validates after the access check). */
+export function queryObject(params: URLSearchParams): Record<string, string> {
+  const out: Record<string, string> = {};
+  params.forEach((v, k) => {
+    if (v !== "") out[k] = v;
+  });
+  return out;
+}

@@ -130,7 +130,7 @@ export function radiusForWtPercent(wt: number | null | undefined, min = 8, max =
 }
 
 export interface StationSymbolOptions {
-  /** Outer radius of the ring, px. @default 15 */
+  /** Outer radius of the ring, px. @default 18 */
   radius?: number;
   /** Ring width, px. @default 6 */
   ringWidth?: number;
@@ -143,7 +143,7 @@ export interface StationSymbolOptions {
  * largest weight (confirmed before candidates). Every phase stays visible as its own segment.
  */
 export function stationSymbolSvg(segments: readonly SymbolSegment[], options: StationSymbolOptions = {}): DrawnSymbol {
-  const { radius = 15, ringWidth = 6, title } = options;
+  const { radius = 18, ringWidth = 6, title } = options;
   if (segments.length === 0) {
     const size = 16;
     return { svg: wrap(size, `<circle cx="8" cy="8" r="5" fill="#FFFFFF" stroke="${INK}" stroke-width="1.5"/><circle cx="8" cy="8" r="2" fill="${TOL_PALE_GREY}"/>`, title), size };
@@ -160,7 +160,7 @@ export function stationSymbolSvg(segments: readonly SymbolSegment[], options: St
     parts.push(
       s.confirmed
         ? `<path d="${d}" fill="${s.colour}" stroke="${INK}" stroke-width="0.8"/>`
-        : `<path d="${d}" fill="#FFFFFF" stroke="${s.colour}" stroke-width="1.6" stroke-dasharray="2.4 1.2"/>`,
+        : candidateSector(d, s.colour),
     );
     a = a1;
   });
@@ -169,6 +169,10 @@ export function stationSymbolSvg(segments: readonly SymbolSegment[], options: St
   parts.push(glyph(segments[lead], c, c, Math.max(4, inner * 0.78), Math.max(6, Math.min(inner * 0.9, 9)) * (segments[lead].symbol.length > 3 ? 0.8 : 1)));
   return { svg: wrap(size, parts.join(""), title), size };
 }
+
+/** A candidate ring segment: white inside, dashed in the phase colour over a dark edge (readable for pale colours). */
+const candidateSector = (d: string, colour: string) =>
+  `<path d="${d}" fill="#FFFFFF" stroke="${INK}" stroke-width="2.4"/><path d="${d}" fill="#FFFFFF" stroke="${colour}" stroke-width="1.4" stroke-dasharray="2.4 1.2"/>`;
 
 /** Index of the segment shown in the centre: confirmed first, then largest weight, then first. */
 export function dominantIndex(segments: readonly SymbolSegment[]): number {
@@ -204,7 +208,7 @@ export function clusterSymbolSvg(segments: readonly SymbolSegment[], count: numb
     parts.push(
       s.confirmed
         ? `<path d="${d}" fill="${s.colour}" stroke="${INK}" stroke-width="0.8"/>`
-        : `<path d="${d}" fill="#FFFFFF" stroke="${s.colour}" stroke-width="1.6" stroke-dasharray="2.4 1.2"/>`,
+        : candidateSector(d, s.colour),
     );
     a = a1;
   });

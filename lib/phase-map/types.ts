@@ -16,6 +16,8 @@ export interface StationPhase {
   /** Mean and largest semi-quantitative wt% over those samples (null when none was estimated). */
   wtMean: number | null;
   wtMax: number | null;
+  /** Health hazard class of the reference phase ("asbestos", "crystalline_silica") or null. */
+  hazard?: string | null;
 }
 
 /** A station (or an unattached sample with its own position) on the phase map. */
