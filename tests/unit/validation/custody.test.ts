@@ -1,0 +1,70 @@
+import { describe, expect, test } from "vitest";
+import { CUSTODY_EVENT_STATUS, STATUS_RANK, custodyStepSchema, planStatusChange } from "@/lib/validation/custody";
+import { SAMPLE_STATUSES, type SampleStatus } from "@/lib/vocabulary";
+
+// The order is DOMAIN.md §1 "Suggested sample lifecycle states": planned → collected → dispatched → received →
+// prepared → scanned → processed → candidates ready → confirmed → reported → stored / returned / discarded
+// ("candidates ready" is our "processed").
+const DOMAIN_ORDER: SampleStatus[] = ["planned", "collected", "dispatched", "received", "prepared", "scanned", "processed", "confirmed", "reported"];
+
+describe("lifecycle ranks", () => {
+  test("follow the DOMAIN order strictly, with the three end states after reported", () => {
+    for (let i = 1; i < DOMAIN_ORDER.length; i++) expect(STATUS_RANK[DOMAIN_ORDER[i]]).toBeGreaterThan(STATUS_RANK[DOMAIN_ORDER[i - 1]]);
+    for (const end of ["stored", "returned", "discarded"] as const) expect(STATUS_RANK[end]).toBeGreaterThan(STATUS_RANK.reported);
+    expect(Object.keys(STATUS_RANK).sort()).toEqual([...SAMPLE_STATUSES].sort());
+  });
+});
+
+describe("planStatusChange", () => {
+  test("custody along the chain moves the status forward step by step", () => {
+    const chain = ["dispatched", "received", "prepared", "scanned", "stored"] as const;
+    let s: SampleStatus = "collected";
+    for (const e of chain) {
+      const plan = planStatusChange(s, e);
+      expect(plan).toEqual({ ok: true, next: CUSTODY_EVENT_STATUS[e], change: "advance" });
+      if (plan.ok) s = plan.next;
+    }
+    expect(s).toBe("stored");
+  });
+
+  test("a step behind the current status is refused with forward, kept with keep, reset with reset", () => {
+    const refused = planStatusChange("scanned", "prepared");
+    expect(refused.ok).toBe(false);
+    if (!refused.ok) expect(refused.reason).toContain('already "scanned"');
+    expect(planStatusChange("scanned", "prepared", "keep")).toEqual({ ok: true, next: "scanned", change: "keep" });
+    expect(planStatusChange("scanned", "prepared", "reset")).toEqual({ ok: true, next: "prepared", change: "regress" });
+  });
+
+  test("repeating the current step and a plain hand-over leave the status as it is", () => {
+    expect(planStatusChange("scanned", "scanned")).toEqual({ ok: true, next: "scanned", change: "same" });
+    expect(planStatusChange("received", "transferred")).toEqual({ ok: true, next: "received", change: "same" });
+  });
+
+  test("stored and returned can follow each other; nothing but a reset comes after discarded", () => {
+    expect(planStatusChange("stored", "returned").ok).toBe(true);
+    expect(planStatusChange("returned", "stored").ok).toBe(true);
+    for (const e of ["received", "prepared", "scanned", "stored", "returned"] as const) expect(planStatusChange("discarded", e).ok).toBe(false);
+    expect(planStatusChange("discarded", "stored", "reset")).toMatchObject({ ok: true, next: "stored", change: "regress" });
+  });
+
+  test("every event × status pair gives a decision and never moves back under 'forward'", () => {
+    for (const st of SAMPLE_STATUSES) {
+      for (const ev of Object.keys(CUSTODY_EVENT_STATUS) as (keyof typeof CUSTODY_EVENT_STATUS)[]) {
+        const plan = planStatusChange(st, ev);
+        if (plan.ok) expect(STATUS_RANK[plan.next]).toBeGreaterThanOrEqual(STATUS_RANK[st]);
+      }
+    }
+  });
+});
+
+describe("custodyStepSchema", () => {
+  test("a reset and a discard need a note; a future time is refused", () => {
+    const r = custodyStepSchema.safeParse({ event: "discarded", statusPolicy: "reset", occurredAt: "2999-01-01T00:00:00Z" });
+    expect(r.success).toBe(false);
+    const paths = r.error!.issues.map((i) => i.path.join("."));
+    expect(paths.sort()).toEqual(["note", "note", "occurredAt"]);
+  });
+  test("defaults to the forward policy", () => {
+    expect(custodyStepSchema.parse({ event: "prepared" }).statusPolicy).toBe("forward");
+  });
+});
