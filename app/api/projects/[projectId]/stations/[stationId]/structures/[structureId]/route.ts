@@ -1,0 +1,10 @@
+import { withActor } from "@/lib/api/handler";
+import { deleteStructure } from "@/lib/dal/structures";
+
+type P = { projectId: string; stationId: string; structureId: string };
+
+// DELETE /api/projects/:projectId/stations/:stationId/structures/:structureId — remove a measurement (lead, field geologist)
+export const DELETE = withActor<P>(async ({ actor, params }) => {
+  await deleteStructure(actor, params.projectId, params.stationId, params.structureId);
+  return new Response(null, { status: 204 });
+});
