@@ -7,6 +7,8 @@ export function projectSections(projectId: string, role: ProjectRole): { href: s
   return [
     { href: base, label: "Overview" },
     { href: `${base}/samples`, label: "Samples" },
+    { href: `${base}/submissions`, label: "Submissions" },
     { href: `${base}/map`, label: "Map" },
+    { href: `${base}/members`, label: "Team" },
   ];
 }
