@@ -9,7 +9,7 @@ import { ANODE_WAVELENGTHS } from "@/lib/science/anodes";
 import { CifError, computePatternDetailed, parseCif, referenceIntensityRatio, type CifStructure } from "@/lib/science/crystal";
 import { findLibraryPhase } from "@/lib/science/minerals";
 import { twoThetaFromD } from "@/lib/science/units";
-import { patternQuerySchema, referenceListQuerySchema } from "@/lib/validation/scan";
+import { hazardFromName, patternQuerySchema, referenceListQuerySchema } from "@/lib/validation/scan";
 import { citationOf, crystalSystemOf, lithodexComments } from "@/scripts/build-reference-library";
 import type { Actor } from "./actor";
 import { audit } from "./audit";
@@ -24,21 +24,6 @@ const LIBRARY_MIN_INTENSITY = 0.5;
 /** Largest CIF accepted, bytes. */
 export const MAX_CIF_BYTES = 2 * 1024 * 1024;
 export const MAX_CIF_FILES = 50;
-
-// DOMAIN §6: species that occur in asbestiform habit, and the crystalline silica polymorphs.
-const ASBESTIFORM = new Set(["chrysotile", "riebeckite", "crocidolite", "grunerite", "amosite", "anthophyllite", "tremolite", "actinolite", "erionite"]);
-const CRYSTALLINE_SILICA = new Set(["quartz", "cristobalite", "tridymite", "coesite"]);
-
-/**
- * Health hazard class of a mineral name for the cautions (asbestos-group species per DOMAIN §6; crystalline silica
- * polymorphs). Names with a suffix such as "erionite-Na" or "quartz low" count.
- */
-export function hazardFromName(mineral: string): "asbestos" | "crystalline_silica" | null {
-  const base = mineral.trim().toLowerCase().split(/[\s\-_(,]/)[0];
-  if (ASBESTIFORM.has(base)) return "asbestos";
-  if (CRYSTALLINE_SILICA.has(base)) return "crystalline_silica";
-  return null;
-}
 
 /** Handling hazards of a shipped phase beyond the two typed ones (radioactive, toxic-arsenic…). */
 export function otherHazardsOf(mineral: string): string[] {

@@ -240,3 +240,22 @@ export function matchFilesToSamples(fileNames: readonly string[], samples: reado
     return { fileName, sampleId: null, sampleCode: null, reason: "No sample code of this project found in the file name." };
   });
 }
+
+// ---------------------------------------------------------------------------------------------------------------
+// Hazard classes for the cautions (DOMAIN §6).
+
+/** Species that occur in asbestiform habit (DOMAIN §6), including the trade names of their asbestos forms. */
+export const ASBESTIFORM_MINERALS = ["chrysotile", "riebeckite", "crocidolite", "grunerite", "amosite", "anthophyllite", "tremolite", "actinolite", "erionite"] as const;
+/** Crystalline silica polymorphs (quartz and cristobalite named in DOMAIN §6; tridymite and coesite are polymorphs too). */
+export const CRYSTALLINE_SILICA_MINERALS = ["quartz", "cristobalite", "tridymite", "coesite"] as const;
+
+/**
+ * Hazard class of a mineral name: asbestos-group species or crystalline silica, else null. A suffix after a space,
+ * hyphen or bracket is ignored ("erionite-Na", "quartz (low)").
+ */
+export function hazardFromName(mineral: string): "asbestos" | "crystalline_silica" | null {
+  const base = mineral.trim().toLowerCase().split(/[\s\-_(,]/)[0];
+  if ((ASBESTIFORM_MINERALS as readonly string[]).includes(base)) return "asbestos";
+  if ((CRYSTALLINE_SILICA_MINERALS as readonly string[]).includes(base)) return "crystalline_silica";
+  return null;
+}
