@@ -61,3 +61,23 @@ export function exiftoolRead(bytes: Buffer, tags: string[]): Record<string, unkn
   const out = execFileSync(EXIFTOOL!, ["-j", "-n", ...tags.map((t) => `-${t}`), file]).toString();
   return JSON.parse(out)[0];
 }
+
+/** "37/1 42/1 36/10"-style EXIF rationals for a decimal angle (seconds to 0.01″). */
+export function exifDms(deg: number): string {
+  const a = Math.abs(deg);
+  const d = Math.floor(a);
+  const m = Math.floor((a - d) * 60);
+  const s = Math.round(((a - d) * 60 - m) * 60 * 100);
+  return `${d}/1 ${m}/1 ${s}/100`;
+}
+
+/** A small JPEG with the given GPS position (and optional horizontal error) written by sharp. */
+export async function jpegAt(lat: number, lon: number, extra: Record<string, string> = {}): Promise<Buffer> {
+  return sharp({ create: { width: 48, height: 32, channels: 3, background: "#6b8e23" } })
+    .jpeg()
+    .withExif({
+      IFD2: { DateTimeOriginal: "2026:03:14 11:20:05", OffsetTimeOriginal: "+01:00" },
+      IFD3: { GPSLatitudeRef: lat < 0 ? "S" : "N", GPSLatitude: exifDms(lat), GPSLongitudeRef: lon < 0 ? "W" : "E", GPSLongitude: exifDms(lon), ...extra },
+    })
+    .toBuffer();
+}

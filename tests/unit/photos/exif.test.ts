@@ -1,7 +1,7 @@
 import sharp from "sharp";
 import { describe, expect, test } from "vitest";
 import { exifLocalDateTime, localToUtc, readPhotoMetadata } from "@/lib/photos/exif";
-import { EXIFTOOL, exiftoolRead, exiftoolWrite, jpegOrientation6, jpegWithGps } from "./fixtures";
+import { EXIFTOOL, exiftoolRead, exiftoolWrite, jpegOrientation6, jpegWithGps } from "../../helpers/photo-fixtures";
 
 describe("readPhotoMetadata", () => {
   test("GPS written by sharp .withExif reads back as −33.8678, 151.2072 (STACK.md pitfall 17)", async () => {

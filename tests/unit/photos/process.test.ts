@@ -3,7 +3,7 @@ import { describe, expect, test } from "vitest";
 import { PhotoError } from "@/lib/photos/errors";
 import { processPhoto } from "@/lib/photos/process";
 import { sniffImageType } from "@/lib/photos/sniff";
-import { jpegOrientation6, jpegWithGps, noise } from "./fixtures";
+import { jpegOrientation6, jpegWithGps, noise } from "../../helpers/photo-fixtures";
 
 const catchError = async (p: Promise<unknown>) => p.then(() => null, (e: unknown) => e as PhotoError);
 
