@@ -2,8 +2,8 @@
 
 import L from "leaflet";
 import Link from "next/link";
-import { useMemo, useState } from "react";
-import { Marker, Popup, useMap, useMapEvents } from "react-leaflet";
+import { useEffect, useMemo, useState } from "react";
+import { Marker, Popup, useMap } from "react-leaflet";
 import Supercluster, { type ClusterProperties, type PointFeature } from "supercluster";
 import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS } from "@/lib/format";
 import { clusterSvg, sampleSymbol, symbolSvg, type SymbolKind } from "./marker-symbols";
@@ -67,7 +67,15 @@ export interface PointLayerProps {
 export function PointLayer({ projectId, stations, samples, canEditStations, movingStationId, movePosition, onMoveStart, onMoveDrag }: PointLayerProps) {
   const map = useMap();
   const [view, setView] = useState(() => ({ bounds: map.getBounds(), zoom: map.getZoom() }));
-  useMapEvents({ moveend: () => setView({ bounds: map.getBounds(), zoom: map.getZoom() }) });
+  // A stable listener: one re-subscribed on every render can miss a moveend fired from another effect.
+  useEffect(() => {
+    const sync = () => setView({ bounds: map.getBounds(), zoom: map.getZoom() });
+    map.on("moveend", sync);
+    sync();
+    return () => {
+      map.off("moveend", sync);
+    };
+  }, [map]);
 
   const samplesAtStation = useMemo(() => {
     const by = new Map<string, MapSample[]>();

@@ -9,12 +9,12 @@ interface SampleFeature {
   properties: { sample_id: string; code: string; sample_type: string; status: string; station_code: string | null; position_source: "sample" | "station" | null };
 }
 
-/** Stations of the project (the stations API answers a list or a page `{items}`). */
+/** Stations of the project (`{items, total}`, up to 2,000). */
 export function useStations(projectId: string) {
   return useQuery({
     queryKey: ["stations", projectId, "map"],
     queryFn: async () => {
-      const body = await fetchJson<unknown>(`/api/projects/${projectId}/stations?pageSize=500`);
+      const body = await fetchJson<unknown>(`/api/projects/${projectId}/stations?limit=2000`);
       const list = (Array.isArray(body) ? body : ((body as { items?: unknown[] })?.items ?? [])) as MapStation[];
       return list.filter((s) => Number.isFinite(s.lat) && Number.isFinite(s.lon));
     },
