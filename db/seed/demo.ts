@@ -4,11 +4,14 @@ import { getDb } from "@/db";
 import { migrateDatabase } from "@/db/migrate";
 import { custodyEvents, organisations, projectMembers, projects, samples, stations, structures } from "@/db/schema";
 import { createUserWithPassword } from "@/lib/users";
+import { seedDemoScans } from "./demo-scans";
+import { seedReferenceLibrary } from "./reference-library";
 import { ALTERATIONS, DEMO_OTHER_PROJECT, DEMO_PASSWORD_NOTE, DEMO_PROJECT, DEMO_STATIONS, DEMO_USERS, SAMPLE_TYPES_CYCLE, seededRandom } from "./scenario";
 
 /** Loads the demo scenario into an empty database. Returns false when data exists already. */
 export async function seedDemo(): Promise<boolean> {
   const db = getDb();
+  await seedReferenceLibrary(); // idempotent: shipped minerals are refreshed even when the demo exists
   const [{ n }] = await db.select({ n: count() }).from(projects);
   if (n > 0) return false;
   const rand = seededRandom(20260314);
@@ -97,6 +100,7 @@ export async function seedDemo(): Promise<boolean> {
     }
     await tx.update(projects).set({ sampleSeq: seq, stationSeq: DEMO_STATIONS.length }).where(eq(projects.id, project.id));
   });
+  await seedDemoScans(DEMO_PROJECT.code);
   return true;
 }
 
