@@ -4,3 +4,4 @@ export * from "./distance";
 export * from "./dms";
 export * from "./structure";
 export * from "./utm";
+export * from "./zoned-time";
