@@ -31,6 +31,11 @@ export function RegisterToolbar({ projectId, selected, query, canImport }: { pro
       <Link className={buttonClass(selected.length ? "primary" : "secondary")} href={labelsHref}>
         {selected.length ? `Print labels (${selected.length} selected)` : "Print labels for this filter"}
       </Link>
+      {canImport && selected.length > 0 && (
+        <Link className={buttonClass("secondary")} href={`/projects/${projectId}/submissions/new?sampleIds=${selected.map((s) => s.id).join(",")}`}>
+          Submit to lab ({selected.length})
+        </Link>
+      )}
       {canImport && (
         <Link className={buttonClass("ghost", "ml-auto")} href={`/projects/${projectId}/samples/import`}>
           Import CSV…

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
+import { CustodyHistory } from "@/components/custody/custody-history";
 import { Badge } from "@/components/ui/badge";
 import { Card } from "@/components/ui/card";
 import { AppError } from "@/lib/dal/errors";
@@ -69,6 +70,7 @@ export default async function SamplePage({ params }: { params: Promise<{ project
           </dl>
         </Card>
       </div>
+      <CustodyHistory projectId={projectId} sampleId={sampleId} />
       <p className="text-xs text-muted">Record version {s.version}.</p>
     </div>
   );
