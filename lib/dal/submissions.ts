@@ -339,3 +339,14 @@ export async function projectLeadEmails(projectId: string): Promise<string[]> {
   return rows.map((r) => r.email);
 }
 
+
+/** Samples picked for a new submission (e.g. from the register's selection), in code order; unknown ids are dropped. */
+export async function getSamplesForPicker(actor: Actor, projectId: string, ids: string[]) {
+  await authorize(actor, projectId, "project.read");
+  if (ids.length === 0) return [];
+  return getDb()
+    .select({ id: samples.id, code: samples.code, sampleType: samples.sampleType, status: samples.status, suspectedAsbestos: samples.suspectedAsbestos, weightKg: samples.weightKg })
+    .from(samples)
+    .where(and(eq(samples.projectId, projectId), inArray(samples.id, ids.slice(0, 500))))
+    .orderBy(asc(samples.code));
+}

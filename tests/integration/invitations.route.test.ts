@@ -31,7 +31,7 @@ async function invite(email: string, role = "field_geologist") {
   return { r, m, link, token: decodeURIComponent(link.split("/invite/")[1]) };
 }
 
-const tokenCall = (handler: typeof acceptRoute, token: string, body?: unknown) => call(handler, { method: body === undefined ? "GET" : "POST", params: { token }, body });
+const tokenCall = (handler: (req: Request, ctx: { params: Promise<{ token: string }> }) => Promise<Response>, token: string, body?: unknown) => call(handler, { method: body === undefined ? "GET" : "POST", params: { token }, body });
 
 describe("invitations", () => {
   test("the invitation e-mail links to /invite/<token>; only the token's SHA-256 is stored", async () => {
