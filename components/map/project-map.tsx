@@ -159,7 +159,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
             </Link>
           </p>
         )}
-        <div className={cn("relative h-[68vh] min-h-[380px] overflow-hidden rounded-lg border border-line bg-[#dfe6e4]", mode.kind !== "browse" && "ring-2 ring-oxide")}>
+        <div className={cn("relative h-[68vh] min-h-[380px] overflow-hidden rounded-lg border border-line bg-[#dfe6e4]", mode.kind !== "browse" && "ring-2 ring-oxide", (mode.kind === "place" || mode.kind === "select") && "[&_.leaflet-marker-pane_.lx-cluster]:pointer-events-none [&_.leaflet-marker-pane_.lx-symbol]:pointer-events-none")}>
           <MapContainer id="map" ref={mapRef} center={[20, 0]} zoom={2} minZoom={1} maxZoom={19} worldCopyJump={false} className="h-full w-full" aria-label="Project map">
             <LayersControl position="topright">
               <LayersControl.BaseLayer checked name="Offline basemap">
@@ -301,7 +301,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
                     {s.code}
                     {s.name ? ` — ${s.name}` : ""}
                   </Link>
-                  <button type="button" className="shrink-0 text-xs text-muted hover:text-ink" onClick={() => mapRef.current?.flyTo([s.lat, s.lon], Math.max(mapRef.current.getZoom(), 15))} aria-label={`Show ${s.code} on the map`}>
+                  <button type="button" className="shrink-0 text-xs text-muted hover:text-ink" onClick={() => mapRef.current?.flyTo([s.lat, s.lon], Math.max(mapRef.current.getZoom(), 17))} aria-label={`Show ${s.code} on the map`}>
                     Locate
                   </button>
                 </li>

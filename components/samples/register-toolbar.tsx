@@ -41,6 +41,11 @@ export function RegisterToolbar({ projectId, selected, query, canImport }: { pro
           Import CSV…
         </Link>
       )}
+      {new URLSearchParams(query).get("bbox") && (
+        <span className="basis-full text-xs text-muted" data-testid="bbox-note">
+          Limited to a map area (W,S,E,N {new URLSearchParams(query).get("bbox")}).
+        </span>
+      )}
     </div>
   );
 }
