@@ -30,28 +30,37 @@ function phaseMatch(q: Pick<RegisterFilter, "mineral" | "group">): SQL {
 }
 
 /**
- * Sample-level phase criterion (on the outer `samples` row): the sample has the filter's mineral/group
- * confirmed ("confirmed"), confirmed or as a candidate ("any"), or only as a candidate ("candidate").
- * Null when the filter names no mineral or group.
+ * Sample-level phase criterion as a sub-SELECT of sample ids: samples with the filter's mineral/group
+ * confirmed ("confirmed"), confirmed or as a candidate ("any"), or only as a candidate ("candidate": a
+ * candidate whose mineral is not confirmed on the same sample). Null when the filter names no mineral or
+ * group. Driven by the phase_results reference index, so it reads only the results of that mineral.
  */
-export function phaseCriterion(q: Pick<RegisterFilter, "mineral" | "group" | "phase" | "leading">): SQL | null {
+export function phaseCriterion(projectId: string, q: Pick<RegisterFilter, "mineral" | "group" | "phase" | "leading">): SQL | null {
   if (!q.mineral && !q.group) return null;
   const match = phaseMatch(q);
-  const exists = (kind: SQL) => sql`EXISTS (SELECT 1 FROM ${FACTS_FROM} WHERE sc.sample_id = "samples"."id" AND ${match} AND ${kind})`;
-  if (q.phase === "confirmed") return exists(CONFIRMED);
-  if (q.phase === "any") return exists(sql`(${CONFIRMED} OR ${candidate(q.leading)})`);
-  // Candidate only: a candidate of the mineral/group whose mineral is not confirmed on the same sample.
-  return sql`EXISTS (SELECT 1 FROM ${FACTS_FROM} WHERE sc.sample_id = "samples"."id" AND ${match} AND ${candidate(q.leading)}
-    AND NOT EXISTS (SELECT 1 FROM scans sc2 JOIN phase_results pr2 ON pr2.run_id = sc2.current_run_id JOIN reference_phases rp2 ON rp2.id = pr2.reference_phase_id
-      WHERE sc2.sample_id = sc.sample_id AND rp2.mineral = rp.mineral AND sc2.status = 'signed_off' AND pr2.status = 'accepted'))`;
+  const select = (kind: SQL, extra: SQL = sql``) =>
+    sql`SELECT sc.sample_id FROM reference_phases rp JOIN phase_results pr ON pr.reference_phase_id = rp.id JOIN scans sc ON sc.id = pr.scan_id AND sc.current_run_id = pr.run_id
+      WHERE sc.project_id = ${projectId} AND ${match} AND ${kind} ${extra}`;
+  if (q.phase === "confirmed") return select(CONFIRMED);
+  if (q.phase === "any") return select(sql`(${CONFIRMED} OR ${candidate(q.leading)})`);
+  return select(
+    candidate(q.leading),
+    sql`AND NOT EXISTS (SELECT 1 FROM scans sc2 JOIN phase_results pr2 ON pr2.run_id = sc2.current_run_id JOIN reference_phases rp2 ON rp2.id = pr2.reference_phase_id
+      WHERE sc2.sample_id = sc.sample_id AND rp2.mineral = rp.mineral AND sc2.status = 'signed_off' AND pr2.status = 'accepted')`,
+  );
 }
 
 /** The register WHERE clause (on `samples`) of a filter: the register's own filters plus the phase criterion. */
 export function registerWhere(projectId: string, q: RegisterFilter): SQL {
-  const crit = phaseCriterion(q);
+  const crit = phaseCriterion(projectId, q);
   const base = sampleFilter(projectId, q);
-  return crit ? and(base, crit)! : base;
+  return crit ? and(base, sql`"samples"."id" IN (${crit})`)! : base;
 }
+
+/** Condition on `sc`/`pr` for a result that counts at all (confirmed or leading candidate). */
+export const countsAsResult = (leading: number) => sql`(${CONFIRMED} OR ${candidate(leading)})`;
+/** Condition on `sc`/`pr` for a confirmed result. */
+export const CONFIRMED_RESULT = CONFIRMED;
 
 /**
  * SELECT yielding one row per (sample, mineral) with the sample-level kind (confirmed wins over a

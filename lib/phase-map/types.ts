@@ -44,14 +44,13 @@ export interface MineralOption {
   mineral: string;
   symbol: string;
   group: string | null;
-  /** Stations with it confirmed / as a candidate only (before the mineral filter). */
+  /** Stations (or unattached samples) with it confirmed / only as a candidate, under the register filter without the mineral/group criterion. */
   confirmedStations: number;
   candidateStations: number;
 }
 
 export interface PhaseMapData {
   stations: PhaseMapStation[];
-  minerals: MineralOption[];
   /** Samples matching the filter, and how many of them have no position (not on the map). */
   totals: { samples: number; stations: number; unlocatedSamples: number };
   generatedAt: string;

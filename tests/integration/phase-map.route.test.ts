@@ -2,6 +2,7 @@ import { beforeAll, describe, expect, test } from "vitest";
 import { getDb } from "@/db";
 import { stations } from "@/db/schema";
 import { GET as phaseMapRoute } from "@/app/api/projects/[projectId]/phase-map/route";
+import { GET as mineralsRoute } from "@/app/api/projects/[projectId]/phase-map/minerals/route";
 import { GET as stationRoute } from "@/app/api/projects/[projectId]/phase-map/stations/[stationKey]/route";
 import { POST as createRoute } from "@/app/api/projects/[projectId]/samples/route";
 import type { PhaseMapData } from "@/lib/phase-map";
@@ -96,7 +97,10 @@ describe("phase map", () => {
     // The unattached sample with its own position is its own point.
     const s4 = d.stations.find((s) => s.key === `sample:${ids.S4}`)!;
     expect([s4.lat, s4.lon, s4.code]).toEqual([37.61, -6.7, "PM-004"]);
-    expect(d.minerals.find((m) => m.mineral === "pyrite")).toMatchObject({ symbol: "Py", confirmedStations: 2, candidateStations: 2 });
+    // The mineral list ignores the mineral filter: pyrite is confirmed at A and in S5, a candidate only at B and C.
+    const minerals = await call(mineralsRoute, { path: "/?mineral=quartz", params: { projectId: w.projectId }, cookie: w.cookies.consultant });
+    expect(minerals.json.items.find((m: { mineral: string }) => m.mineral === "pyrite")).toMatchObject({ symbol: "Py", confirmedStations: 2, candidateStations: 2 });
+    expect(minerals.json.items.map((m: { mineral: string }) => m.mineral)).toEqual(["calcite", "goethite", "hematite", "pyrite", "quartz"]);
   });
 
   test("group filter and the register filters (lithology, date range, collector)", async () => {
