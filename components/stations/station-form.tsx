@@ -1,0 +1,206 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useRouter } from "next/navigation";
+import { useState } from "react";
+import { useForm, useWatch, type Resolver } from "react-hook-form";
+import { Button, buttonClass } from "@/components/ui/button";
+import { Field, inputClass } from "@/components/ui/field";
+import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo";
+import { stationCreateSchema, stationPatchSchema } from "@/lib/validation/station";
+import { ConflictPanel, type ConflictField } from "./conflict-panel";
+import { LocationFields, type LocationValue } from "./location-fields";
+import { applyServerErrors } from "./server-errors";
+
+/** A station as the form reads and writes it. */
+export interface StationFormValues extends LocationValue {
+  code?: string;
+  name: string | null;
+  lithology: string | null;
+  description: string | null;
+  observedAt: string | null;
+  version?: number;
+}
+
+export interface StationRecord extends Omit<StationFormValues, "lat" | "lon"> {
+  id: string;
+  code: string;
+  lat: number;
+  lon: number;
+  version: number;
+}
+
+const KNOWN = ["code", "name", "lat", "lon", "elevationM", "elevationRef", "horizontalAccuracyM", "locationSource", "locationFixedAt", "lithology", "description", "observedAt"] as const;
+
+const CONFLICT_FIELDS: ConflictField[] = [
+  { key: "code", label: "Code" },
+  { key: "name", label: "Name" },
+  { key: "lat", label: "Latitude" },
+  { key: "lon", label: "Longitude" },
+  { key: "elevationM", label: "Elevation (m)" },
+  { key: "elevationRef", label: "Elevation reference" },
+  { key: "horizontalAccuracyM", label: "Accuracy (m)" },
+  { key: "lithology", label: "Lithology" },
+  { key: "description", label: "Description" },
+  { key: "observedAt", label: "Observed (UTC)" },
+];
+
+const emptyToNull = (v: string | null | undefined) => (v == null || v.trim() === "" ? null : v);
+
+function toForm(s?: StationRecord): StationFormValues {
+  return {
+    code: s?.code,
+    name: s?.name ?? null,
+    lat: s?.lat ?? null,
+    lon: s?.lon ?? null,
+    elevationM: s?.elevationM ?? null,
+    elevationRef: s?.elevationRef ?? "msl",
+    horizontalAccuracyM: s?.horizontalAccuracyM ?? null,
+    locationSource: s?.locationSource ?? null,
+    locationFixedAt: s?.locationFixedAt ?? null,
+    lithology: s?.lithology ?? null,
+    description: s?.description ?? null,
+    observedAt: s?.observedAt ?? null,
+    version: s?.version,
+  };
+}
+
+/** Create or edit a station. Same zod schema as the server; a stale edit shows both versions. */
+export function StationForm({ projectId, station, nextCode }: { projectId: string; station?: StationRecord; nextCode?: string }) {
+  const router = useRouter();
+  const editing = !!station;
+  const zone = Intl.DateTimeFormat().resolvedOptions().timeZone;
+  const schema = editing ? stationPatchSchema : stationCreateSchema;
+  const form = useForm<StationFormValues>({
+    resolver: zodResolver(schema as never) as unknown as Resolver<StationFormValues>,
+    defaultValues: toForm(station),
+  });
+  const { register, handleSubmit, setValue, control, setError, getValues, reset, formState } = form;
+  const [general, setGeneral] = useState<string[]>([]);
+  const [conflict, setConflict] = useState<StationRecord | null>(null);
+  const [observedLocal, setObservedLocal] = useState(station?.observedAt ? (utcToZonedLocal(station.observedAt, zone) ?? "") : "");
+  const errors = formState.errors;
+  const err = (k: keyof StationFormValues) => errors[k]?.message as string | undefined;
+  const loc = useWatch({ control, name: ["lat", "lon", "elevationM", "elevationRef", "horizontalAccuracyM", "locationSource", "locationFixedAt"] });
+  const location: LocationValue = {
+    lat: loc[0],
+    lon: loc[1],
+    elevationM: loc[2],
+    elevationRef: loc[3],
+    horizontalAccuracyM: loc[4],
+    locationSource: loc[5],
+    locationFixedAt: loc[6],
+  };
+
+  async function save(values: StationFormValues, version?: number) {
+    setGeneral([]);
+    const body: Record<string, unknown> = {
+      ...values,
+      name: emptyToNull(values.name),
+      lithology: emptyToNull(values.lithology),
+      description: emptyToNull(values.description),
+    };
+    if (!body.code) delete body.code;
+    try {
+      const saved = editing
+        ? await fetchJson<StationRecord>(`/api/projects/${projectId}/stations/${station!.id}`, { method: "PATCH", json: { ...body, version: version ?? values.version } })
+        : await fetchJson<StationRecord>(`/api/projects/${projectId}/stations`, { method: "POST", json: body });
+      router.push(`/projects/${projectId}/stations/${saved.id}`);
+      router.refresh();
+    } catch (e) {
+      if (e instanceof ApiError && e.status === 409 && e.details?.current) {
+        setConflict(e.details.current as StationRecord);
+        return;
+      }
+      setGeneral(applyServerErrors(e, setError, KNOWN));
+    }
+  }
+
+  function onObserved(v: string) {
+    setObservedLocal(v);
+    setValue("observedAt", v ? zonedLocalToUtc(v, zone) : null, { shouldDirty: true });
+  }
+
+  const onSubmit = handleSubmit((values) => save(values));
+
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-5" aria-label={editing ? "Edit station" : "New station"}>
+      {conflict && (
+        <ConflictPanel
+          fields={CONFLICT_FIELDS}
+          mine={getValues() as unknown as Record<string, unknown>}
+          theirs={conflict as unknown as Record<string, unknown>}
+          busy={formState.isSubmitting}
+          onKeepMine={async () => {
+            const v = conflict.version;
+            setConflict(null);
+            setValue("version", v);
+            await handleSubmit((values) => save(values, v))();
+          }}
+          onTakeTheirs={() => {
+            reset(toForm(conflict));
+            setObservedLocal(conflict.observedAt ? (utcToZonedLocal(conflict.observedAt, zone) ?? "") : "");
+            setConflict(null);
+          }}
+        />
+      )}
+      <div className="grid gap-3 sm:grid-cols-2">
+        <Field label="Station code" htmlFor="st-code" error={err("code")} hint={editing ? "Unique in the project." : `Leave empty to use the next code${nextCode ? `, ${nextCode}` : ""}.`}>
+          <input
+            id="st-code"
+            className={inputClass}
+            placeholder={nextCode}
+            autoCapitalize="characters"
+            {...register("code", { setValueAs: (v: string) => (v?.trim() ? v.trim().toUpperCase() : undefined) })}
+            aria-invalid={err("code") ? true : undefined}
+          />
+        </Field>
+        <Field label="Name" htmlFor="st-name" error={err("name")} hint="A short place name, e.g. Gossan ridge north.">
+          <input id="st-name" className={inputClass} {...register("name")} aria-invalid={err("name") ? true : undefined} />
+        </Field>
+      </div>
+      <LocationFields
+        required
+        value={location}
+        onChange={(patch) => {
+          for (const [k, v] of Object.entries(patch)) setValue(k as keyof StationFormValues, v as never, { shouldDirty: true, shouldValidate: formState.isSubmitted });
+        }}
+        errors={{
+          lat: err("lat"),
+          lon: err("lon"),
+          elevationM: err("elevationM"),
+          elevationRef: err("elevationRef"),
+          horizontalAccuracyM: err("horizontalAccuracyM"),
+          locationSource: err("locationSource"),
+        }}
+      />
+      <div className="grid gap-3 sm:grid-cols-2">
+        <Field label="Lithology" htmlFor="st-lith" error={err("lithology")}>
+          <input id="st-lith" className={inputClass} list="lithology-terms" {...register("lithology")} />
+        </Field>
+        <Field label={`Observed (${zone})`} htmlFor="st-obs" error={err("observedAt")} hint="Local time on this device; stored in UTC.">
+          <input id="st-obs" type="datetime-local" className={inputClass} value={observedLocal} onChange={(e) => onObserved(e.target.value)} />
+        </Field>
+      </div>
+      <Field label="Description" htmlFor="st-desc" error={err("description")}>
+        <textarea id="st-desc" rows={4} className={inputClass} {...register("description")} />
+      </Field>
+      {general.length > 0 && (
+        <div role="alert" className="rounded-md border border-danger/30 bg-red-50 p-3 text-sm text-danger">
+          {general.map((g) => (
+            <p key={g}>{g}</p>
+          ))}
+        </div>
+      )}
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" disabled={formState.isSubmitting}>
+          {formState.isSubmitting ? "Saving…" : editing ? "Save changes" : "Create station"}
+        </Button>
+        <a href={editing ? `/projects/${projectId}/stations/${station!.id}` : `/projects/${projectId}/stations`} className={buttonClass("secondary")}>
+          Cancel
+        </a>
+      </div>
+    </form>
+  );
+}

@@ -1,0 +1,238 @@
+"use client";
+
+import { zodResolver } from "@hookform/resolvers/zod";
+import { useRouter } from "next/navigation";
+import { useState } from "react";
+import { useForm, useWatch, type Resolver } from "react-hook-form";
+import { Button } from "@/components/ui/button";
+import { Field, inputClass } from "@/components/ui/field";
+import { fetchJson } from "@/lib/client/fetch-json";
+import { angleLineToPlane, dipDirectionFromStrike, formatAttitude, lineFromRake, normalizeAzimuth, poleToPlane } from "@/lib/geo";
+import { LINEAR_FEATURES, PLANAR_FEATURES, STRUCTURE_QUALITIES, structureCreateSchema } from "@/lib/validation/structure";
+import { asNumber, applyServerErrors } from "./server-errors";
+import { FEATURE_LABELS } from "./structure-labels";
+
+export interface PlaneOption {
+  id: string;
+  feature: string;
+  dipDirection: number;
+  dip: number;
+}
+
+type Convention = "rhr" | "dip_dipdir" | "trend_plunge" | "rake";
+
+interface Values {
+  convention: Convention;
+  feature: string;
+  strike?: number | null;
+  dipDirection?: number | null;
+  dip?: number | null;
+  trend?: number | null;
+  plunge?: number | null;
+  rake?: number | null;
+  planeId?: string | null;
+  azimuthRef: "true" | "magnetic";
+  declinationDeg?: number | null;
+  generation?: string;
+  quality?: string | null;
+  overturned?: boolean;
+  note?: string;
+}
+
+const CONVENTIONS: { value: Convention; label: string }[] = [
+  { value: "rhr", label: "Plane — strike / dip (right-hand rule)" },
+  { value: "dip_dipdir", label: "Plane — dip direction / dip" },
+  { value: "trend_plunge", label: "Line — trend / plunge" },
+  { value: "rake", label: "Line — rake on a plane" },
+];
+
+const KNOWN = ["convention", "feature", "strike", "dipDirection", "dip", "trend", "plunge", "rake", "planeId", "azimuthRef", "declinationDeg", "generation", "quality", "overturned", "note"];
+const fin = (v: unknown): v is number => typeof v === "number" && Number.isFinite(v);
+
+/** What the entry means, computed as you type (same formulas the server stores with). */
+function preview(v: Partial<Values>, planes: PlaneOption[]): string | null {
+  const decl = v.azimuthRef === "magnetic" && fin(v.declinationDeg) ? v.declinationDeg : 0;
+  const t = (a: number) => normalizeAzimuth(a + decl);
+  if (v.convention === "rhr" && fin(v.strike) && fin(v.dip)) {
+    const dd = dipDirectionFromStrike(t(v.strike));
+    const pole = poleToPlane({ dipDirection: dd, dip: v.dip });
+    return `Dips ${Math.round(v.dip)}° toward ${formatAttitude(dd, 0).slice(0, 3)}° (true) · stored as ${formatAttitude(dd, v.dip)} dip dir./dip · pole ${formatAttitude(pole.trend, pole.plunge)}`;
+  }
+  if (v.convention === "dip_dipdir" && fin(v.dipDirection) && fin(v.dip)) {
+    const dd = t(v.dipDirection);
+    const pole = poleToPlane({ dipDirection: dd, dip: v.dip });
+    return `Strike ${formatAttitude(dd - 90, 0).slice(0, 3)} (RHR) · pole ${formatAttitude(pole.trend, pole.plunge)}`;
+  }
+  const plane = planes.find((p) => p.id === v.planeId);
+  if (v.convention === "rake" && fin(v.rake) && plane) {
+    const l = lineFromRake(plane, v.rake);
+    return `Trend/plunge ${formatAttitude(l.trend, l.plunge)} (plunge ${l.plunge.toFixed(1)}° toward ${l.trend.toFixed(1)}°)`;
+  }
+  if (v.convention === "trend_plunge" && fin(v.trend) && fin(v.plunge)) {
+    const line = { trend: t(v.trend), plunge: v.plunge };
+    if (!plane) return `${Math.round(v.plunge)}→${formatAttitude(line.trend, 0).slice(0, 3)}`;
+    const off = angleLineToPlane(line, plane);
+    return off < 10 ? `${off.toFixed(1)}° off its plane — within the 10° allowed.` : `⚠ ${off.toFixed(1)}° off plane ${formatAttitude(plane.dipDirection, plane.dip)}: a line measured on a plane must lie in it (10° allowed).`;
+  }
+  return null;
+}
+
+/** Adds a structural measurement to a station (same zod schema as the server). */
+export function StructureForm({ projectId, stationId, planes }: { projectId: string; stationId: string; planes: PlaneOption[] }) {
+  const router = useRouter();
+  const [general, setGeneral] = useState<string[]>([]);
+  const [saved, setSaved] = useState<string | null>(null);
+  const { register, handleSubmit, control, setError, reset, formState, getValues, setValue } = useForm<Values>({
+    resolver: zodResolver(structureCreateSchema as never) as unknown as Resolver<Values>,
+    defaultValues: { convention: "rhr", feature: "bedding", azimuthRef: "true" },
+    shouldUnregister: true,
+  });
+  const v = useWatch({ control }) as Partial<Values>;
+  const errors = formState.errors;
+  const err = (k: keyof Values) => errors[k]?.message as string | undefined;
+  const isPlane = v.convention === "rhr" || v.convention === "dip_dipdir";
+  const features = isPlane ? PLANAR_FEATURES : LINEAR_FEATURES;
+  const num = (name: keyof Values, label: string, hint?: string) => (
+    <Field label={label} htmlFor={`sf-${name}`} error={err(name)} hint={hint}>
+      <input id={`sf-${name}`} type="number" step="any" inputMode="decimal" className={inputClass} {...register(name, { setValueAs: asNumber })} aria-invalid={err(name) ? true : undefined} />
+    </Field>
+  );
+
+  const onSubmit = handleSubmit(async (values) => {
+    setGeneral([]);
+    setSaved(null);
+    const body: Record<string, unknown> = { ...values };
+    for (const [k, val] of Object.entries(body)) if (val === "" || val === undefined) delete body[k];
+    if (body.azimuthRef === "true") delete body.declinationDeg;
+    try {
+      const row = await fetchJson<{ feature: string }>(`/api/projects/${projectId}/stations/${stationId}/structures`, { method: "POST", json: body });
+      setSaved(`Saved ${FEATURE_LABELS[row.feature] ?? row.feature}.`);
+      reset({ convention: values.convention, feature: values.feature, azimuthRef: values.azimuthRef, declinationDeg: values.declinationDeg });
+      router.refresh();
+    } catch (e) {
+      setGeneral(applyServerErrors(e, setError, KNOWN));
+    }
+  });
+
+  const hint = preview(v, planes);
+  return (
+    <form onSubmit={onSubmit} noValidate className="space-y-3" aria-label="Add a structural measurement">
+      <div className="grid gap-3 sm:grid-cols-2">
+        <Field label="Measurement" htmlFor="sf-convention" error={err("convention")}>
+          <select
+            id="sf-convention"
+            className={inputClass}
+            {...register("convention", {
+              onChange: (e: React.ChangeEvent<HTMLSelectElement>) => {
+                const plane = e.target.value === "rhr" || e.target.value === "dip_dipdir";
+                if (!(plane ? (PLANAR_FEATURES as readonly string[]) : (LINEAR_FEATURES as readonly string[])).includes(getValues("feature"))) setValue("feature", plane ? "bedding" : "lineation");
+              },
+            })}
+          >
+            {CONVENTIONS.map((c) => (
+              <option key={c.value} value={c.value} disabled={c.value === "rake" && planes.length === 0}>
+                {c.label}
+              </option>
+            ))}
+          </select>
+        </Field>
+        <Field label="Feature" htmlFor="sf-feature" error={err("feature")}>
+          <select id="sf-feature" className={inputClass} {...register("feature")}>
+            {features.map((f) => (
+              <option key={f} value={f}>
+                {FEATURE_LABELS[f]}
+              </option>
+            ))}
+          </select>
+        </Field>
+      </div>
+      <div className="grid gap-3 sm:grid-cols-3">
+        {v.convention === "rhr" && (
+          <>
+            {num("strike", "Strike (°)", "Right-hand rule: dips to your right.")}
+            {num("dip", "Dip (°)", "0–90")}
+          </>
+        )}
+        {v.convention === "dip_dipdir" && (
+          <>
+            {num("dipDirection", "Dip direction (°)", "0–360")}
+            {num("dip", "Dip (°)", "0–90")}
+          </>
+        )}
+        {v.convention === "trend_plunge" && (
+          <>
+            {num("trend", "Trend (°)", "Azimuth of the down-plunge direction")}
+            {num("plunge", "Plunge (°)", "0–90")}
+          </>
+        )}
+        {v.convention === "rake" && num("rake", "Rake (°)", "0–180 from the plane's RHR strike")}
+        {(v.convention === "rake" || v.convention === "trend_plunge") && (
+          <Field label={v.convention === "rake" ? "On plane" : "On plane (optional)"} htmlFor="sf-plane" error={err("planeId")}>
+            <select id="sf-plane" className={inputClass} {...register("planeId", { setValueAs: (x: string) => x || null })}>
+              <option value="">{v.convention === "rake" ? "Choose a plane…" : "— not measured on a plane"}</option>
+              {planes.map((p) => (
+                <option key={p.id} value={p.id}>
+                  {FEATURE_LABELS[p.feature] ?? p.feature} {formatAttitude(p.dipDirection, p.dip)}
+                </option>
+              ))}
+            </select>
+          </Field>
+        )}
+      </div>
+      {v.convention !== "rake" && (
+        <div className="grid gap-3 sm:grid-cols-3">
+          <Field label="Azimuth read from" htmlFor="sf-ref" error={err("azimuthRef")}>
+            <select id="sf-ref" className={inputClass} {...register("azimuthRef")}>
+              <option value="true">True north (compass corrected)</option>
+              <option value="magnetic">Magnetic north</option>
+            </select>
+          </Field>
+          {v.azimuthRef === "magnetic" && num("declinationDeg", "Declination (°, east +)", "True = magnetic + declination")}
+        </div>
+      )}
+      <div className="grid gap-3 sm:grid-cols-3">
+        <Field label="Generation" htmlFor="sf-gen" error={err("generation")} hint="e.g. S0, S1, L2">
+          <input id="sf-gen" className={inputClass} {...register("generation")} />
+        </Field>
+        <Field label="Quality" htmlFor="sf-q" error={err("quality")}>
+          <select id="sf-q" className={inputClass} {...register("quality", { setValueAs: (x: string) => x || null })}>
+            <option value="">—</option>
+            {STRUCTURE_QUALITIES.map((q) => (
+              <option key={q} value={q}>
+                {q}
+              </option>
+            ))}
+          </select>
+        </Field>
+        {isPlane && (
+          <label className="flex items-center gap-2 self-end pb-2 text-sm">
+            <input type="checkbox" {...register("overturned")} /> Overturned
+          </label>
+        )}
+      </div>
+      <Field label="Note" htmlFor="sf-note" error={err("note")}>
+        <input id="sf-note" className={inputClass} {...register("note")} />
+      </Field>
+      {hint && (
+        <p className="text-sm text-ink" aria-live="polite" data-testid="structure-preview">
+          {hint}
+        </p>
+      )}
+      {general.length > 0 && (
+        <div role="alert" className="rounded-md border border-danger/30 bg-red-50 p-3 text-sm text-danger">
+          {general.map((g) => (
+            <p key={g}>{g}</p>
+          ))}
+        </div>
+      )}
+      {saved && (
+        <p role="status" className="text-sm text-ok">
+          {saved}
+        </p>
+      )}
+      <Button type="submit" disabled={formState.isSubmitting}>
+        {formState.isSubmitting ? "Saving…" : "Add measurement"}
+      </Button>
+    </form>
+  );
+}
