@@ -8,7 +8,9 @@ export function projectSections(projectId: string, role: ProjectRole): { href: s
     { href: base, label: "Overview" },
     { href: `${base}/samples`, label: "Samples" },
     { href: `${base}/submissions`, label: "Submissions" },
+    { href: `${base}/scans`, label: "Scans" },
     { href: `${base}/map`, label: "Map" },
     { href: `${base}/members`, label: "Team" },
+    { href: "/library", label: "Reference library" },
   ];
 }

@@ -323,6 +323,12 @@ async function checkBulk(projectId: string, raw: Record<string, unknown>, files:
     .from(samples)
     .where(eq(samples.projectId, projectId));
   const byId = new Map(sampleList.map((s) => [s.id, s]));
+  const byCode = new Map(sampleList.map((s) => [s.code.toUpperCase(), s]));
+  // An assignment names the sample by id or by code.
+  for (const [file, v] of Object.entries(assignments)) {
+    const hit = byCode.get(v.trim().toUpperCase());
+    if (!byId.has(v) && hit) assignments[file] = hit.id;
+  }
   const matched = matchFilesToSamples(
     files.map((f) => f.name),
     sampleList,
@@ -332,11 +338,12 @@ async function checkBulk(projectId: string, raw: Record<string, unknown>, files:
   for (const [i, m] of matched.entries()) {
     const file = files[i];
     const assignedId = assignments[file.name];
-    if (assignedId !== undefined && !byId.has(assignedId)) {
-      preview.problems.push({ fileName: file.name, field: "assignments", message: "The sample chosen for this file is not in this project." });
+    if (assignedId !== undefined && assignedId.trim() === "") delete assignments[file.name];
+    else if (assignedId !== undefined && !byId.has(assignedId)) {
+      preview.problems.push({ fileName: file.name, field: "assignments", message: `No sample "${assignedId}" in this project.` });
       continue;
     }
-    const sampleId = assignedId ?? m.sampleId;
+    const sampleId = assignments[file.name] ?? m.sampleId;
     const read = readScanFile(file, settings);
     if (isProblem(read)) {
       preview.problems.push(read);
@@ -351,7 +358,7 @@ async function checkBulk(projectId: string, raw: Record<string, unknown>, files:
       fileName: file.name,
       sampleId,
       sampleCode: sample.code,
-      assigned: assignedId !== undefined,
+      assigned: assignments[file.name] !== undefined,
       pointCount: read.pointCount,
       range: [read.twoThetaStart, read.twoThetaEnd],
       format: read.scan.meta.format,
@@ -553,6 +560,13 @@ export async function getScanOrThrow(actor: Actor, projectId: string, scanId: st
     canProcess: isAdmin || access.role === "lab_analyst",
     canReview: isAdmin || access.role === "lab_analyst",
   };
+}
+
+/** Throws not_found unless the scan exists in a project the actor can read (cheap check for pages). */
+export async function assertScanVisible(actor: Actor, projectId: string, scanId: string): Promise<void> {
+  await authorize(actor, projectId, "project.read");
+  const [row] = await getDb().select({ id: scans.id }).from(scans).where(and(eq(scans.id, scanId), eq(scans.projectId, projectId)));
+  if (!row) throw notFound("Scan not found.");
 }
 
 /** The original file, byte for byte, for download. */

@@ -2,6 +2,7 @@ import type { Metadata } from "next";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { CustodyHistory } from "@/components/custody/custody-history";
+import { SamplePhases } from "@/components/scans/sample-phases";
 import { Badge } from "@/components/ui/badge";
 import { Card } from "@/components/ui/card";
 import { AppError } from "@/lib/dal/errors";
@@ -70,6 +71,7 @@ export default async function SamplePage({ params }: { params: Promise<{ project
           </dl>
         </Card>
       </div>
+      <SamplePhases actor={actor} projectId={projectId} sampleId={sampleId} canUpload={actor.isAdmin || s.role === "lab_analyst"} />
       <CustodyHistory projectId={projectId} sampleId={sampleId} />
       <p className="text-xs text-muted">Record version {s.version}.</p>
     </div>
