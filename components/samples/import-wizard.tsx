@@ -47,19 +47,22 @@ function Step({ n, title, active, children }: { n: number; title: string; active
 export function ImportWizard({ projectId }: { projectId: string }) {
   const [file, setFile] = useState<{ name: string; text: string } | null>(null);
   const [decimal, setDecimal] = useState<Decimal>("auto");
+  const [timeZone, setTimeZone] = useState("");
+  // Zone suggestions are filled on first focus (server and browser may know different zone lists).
+  const [zones, setZones] = useState<string[]>([]);
   const [mapping, setMapping] = useState<ColumnMapping | null>(null);
   const [preview, setPreview] = useState<Preview | null>(null);
   const [busy, setBusy] = useState<"preview" | "commit" | null>(null);
   const [problem, setProblem] = useState<string | null>(null);
   const [done, setDone] = useState<{ imported: number; firstCode: string | null; lastCode: string | null } | null>(null);
 
-  async function runPreview(text: string, map: ColumnMapping | null, dec: Decimal) {
+  async function runPreview(text: string, map: ColumnMapping | null, dec: Decimal, tz = timeZone) {
     setBusy("preview");
     setProblem(null);
     try {
       const p = await fetchJson<Preview>(`/api/projects/${projectId}/samples/import?mode=preview`, {
         method: "POST",
-        json: { csv: text, decimalComma: decimalOption(dec), ...(map && { mapping: map }) },
+        json: { csv: text, decimalComma: decimalOption(dec), timeZone: tz.trim() || null, ...(map && { mapping: map }) },
       });
       setPreview(p);
       setMapping(p.mapping);
@@ -92,7 +95,7 @@ export function ImportWizard({ projectId }: { projectId: string }) {
     try {
       const r = await fetchJson<{ imported: number; firstCode: string | null; lastCode: string | null }>(`/api/projects/${projectId}/samples/import?mode=commit`, {
         method: "POST",
-        json: { csv: file.text, decimalComma: decimalOption(decimal), ...(mapping && { mapping }) },
+        json: { csv: file.text, decimalComma: decimalOption(decimal), timeZone: timeZone.trim() || null, ...(mapping && { mapping }) },
       });
       setDone(r);
     } catch (err) {
@@ -130,7 +133,7 @@ export function ImportWizard({ projectId }: { projectId: string }) {
   return (
     <div className="space-y-4">
       <Step n={1} title="Choose a CSV file" active>
-        <div className="grid gap-3 md:grid-cols-[2fr_1fr]">
+        <div className="grid gap-3 md:grid-cols-[2fr_1fr_1fr]">
           <label className="text-sm">
             <span className="mb-1 block font-medium">File (UTF-8 CSV, header row first)</span>
             <input type="file" accept=".csv,text/csv,text/plain" className={inputClass} onChange={(e) => onFile(e.target.files?.[0])} />
@@ -151,9 +154,26 @@ export function ImportWizard({ projectId }: { projectId: string }) {
               <option value="comma">Comma (37,5)</option>
             </select>
           </label>
+          <label className="text-sm">
+            <span className="mb-1 block font-medium">Time zone of local times (optional)</span>
+            <input
+              className={inputClass}
+              list="iana-zones"
+              placeholder="e.g. Europe/Madrid"
+              value={timeZone}
+              onChange={(e) => setTimeZone(e.target.value)}
+              onFocus={() => zones.length === 0 && typeof Intl.supportedValuesOf === "function" && setZones(Intl.supportedValuesOf("timeZone"))}
+              onBlur={() => file && runPreview(file.text, mapping, decimal, timeZone)}
+            />
+            <datalist id="iana-zones">
+              {zones.map((z) => (
+                <option key={z} value={z} />
+              ))}
+            </datalist>
+          </label>
         </div>
         <p className="mt-2 text-xs text-muted">
-          Coordinates in WGS84 decimal degrees (lat, lon). Dates as ISO 8601 with offset (2026-03-14T10:05:00+01:00), or local time with a collected_tz column. Rows without a code get the next
+          Coordinates in WGS84 decimal degrees (lat, lon). Dates as ISO 8601 with offset (2026-03-14T10:05:00+01:00), or local time with a collected_tz column or the time zone chosen here. Rows without a code get the next
           project codes. The easiest template is an export of the register.
         </p>
       </Step>
@@ -252,7 +272,7 @@ export function ImportWizard({ projectId }: { projectId: string }) {
               together, or none.
             </p>
             <Button onClick={commit} disabled={!canCommit}>
-              {busy === "commit" ? "Importing…" : `Import ${preview.validRowCount} samples`}
+              {busy === "commit" ? "Importing…" : `Import ${preview.validRowCount} sample${preview.validRowCount === 1 ? "" : "s"}`}
             </Button>
           </Step>
         </>

@@ -34,6 +34,11 @@ export interface CsvImportOptions {
   decimalComma?: boolean | "auto";
   /** Refuse files with more data rows than this. @default 20000 */
   maxRows?: number;
+  /**
+   * IANA zone for local date-times in rows that name none (chosen by the importer, never guessed);
+   * such rows also get it as their collected_tz. @default none: local times without a zone are errors
+   */
+  defaultTimeZone?: string | null;
 }
 
 export interface CsvImportParse {
@@ -79,7 +84,7 @@ function readCell(field: SampleCsvField, raw: string, tz: string | null, decimal
  * @param options - see {@link CsvImportOptions}
  */
 export function parseSampleCsv(text: string, options: CsvImportOptions = {}): CsvImportParse {
-  const { decimalComma: dc = "auto", maxRows = 20_000 } = options;
+  const { decimalComma: dc = "auto", maxRows = 20_000, defaultTimeZone = null } = options;
   const src = text.replace(/^\uFEFF/, "").replace(/\r\n?/g, "\n");
   const errors: CsvImportError[] = [];
   const records: { line: number; cells: string[] }[] = [];
@@ -94,7 +99,8 @@ export function parseSampleCsv(text: string, options: CsvImportOptions = {}): Cs
       scanned = Math.max(scanned, end);
       const inner = r.data.reduce((n, cell) => n + (cell.match(/\n/g)?.length ?? 0), 0);
       const line = newlines + 1 - inner;
-      for (const e of r.errors) errors.push({ line, column: null, field: null, message: `CSV syntax: ${e.message}.` });
+      // A one-column file has no delimiter to detect; that is not an error.
+      for (const e of r.errors) if (e.code !== "UndetectableDelimiter") errors.push({ line, column: null, field: null, message: `CSV syntax: ${e.message}.` });
       records.push({ line, cells: r.data });
     },
   });
@@ -116,6 +122,7 @@ export function parseSampleCsv(text: string, options: CsvImportOptions = {}): Cs
   if (!Object.values(mapping).includes("sampleType")) errors.push(fileError('No column is mapped to the sample type; add a "sample_type" column (e.g. hand_sample, soil, stream_sediment).'));
   if (data.length === 0) errors.push(fileError("The file has a header row but no data rows."));
   if (data.length > maxRows) errors.push(fileError(`The file has ${data.length} data rows; import at most ${maxRows} at a time.`));
+  if (defaultTimeZone && !isKnownZone(defaultTimeZone)) errors.push(fileError(`"${defaultTimeZone}" is not an IANA time zone such as Europe/Madrid.`));
   if (errors.length) return { ...base, mapping, rows: [], errors };
 
   const fieldColumn = new Map<SampleCsvField, number>();
@@ -136,7 +143,7 @@ export function parseSampleCsv(text: string, options: CsvImportOptions = {}): Cs
     const rowErrors: CsvImportError[] = [];
     const values: Record<string, unknown> = {};
     const tzRaw = tzCol !== undefined ? cells[tzCol].trim() : "";
-    const tz = tzRaw && isKnownZone(tzRaw) ? tzRaw : null;
+    const tz = tzRaw ? (isKnownZone(tzRaw) ? tzRaw : null) : defaultTimeZone;
     for (const [field, i] of fieldColumn) {
       const raw = cells[i].trim();
       if (raw === "") continue;
@@ -159,7 +166,8 @@ export function parseSampleCsv(text: string, options: CsvImportOptions = {}): Cs
       errors.push(...rowErrors);
       continue;
     }
-    const sample = collectedTz ? { ...check.data, collectedTz: collectedTz as string } : check.data;
+    const zone = (collectedTz as string | undefined) ?? (sampleValues.collectedAt ? defaultTimeZone : null);
+    const sample = zone ? { ...check.data, collectedTz: zone } : check.data;
     if (sample.code) {
       const first = codeLines.get(sample.code);
       if (first !== undefined) {

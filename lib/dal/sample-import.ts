@@ -25,6 +25,7 @@ export const sampleImportSchema = z
     csv: z.string({ error: "csv (the file's text) is required." }).min(1, "The file is empty.").max(MAX_IMPORT_CHARS, `The file is larger than ${MAX_IMPORT_CHARS / 1_000_000} million characters; split it.`),
     mapping: z.record(z.string(), z.enum(FIELDS).nullable()).optional(),
     decimalComma: z.union([z.boolean(), z.literal("auto")]).optional(),
+    timeZone: z.string().trim().max(64).nullable().optional(),
   })
   .strict();
 
@@ -52,7 +53,7 @@ function chunks<T>(items: readonly T[], size: number): T[][] {
 /** Parses the file, then checks what needs the database: codes and IGSNs already used, station codes. */
 async function parseAndCheck(projectId: string, raw: unknown): Promise<Checked> {
   const input = validateInput(sampleImportSchema, raw);
-  const parse = parseSampleCsv(input.csv, { mapping: input.mapping as CsvImportParse["mapping"] | undefined, decimalComma: input.decimalComma ?? "auto" });
+  const parse = parseSampleCsv(input.csv, { mapping: input.mapping as CsvImportParse["mapping"] | undefined, decimalComma: input.decimalComma ?? "auto", defaultTimeZone: input.timeZone || null });
   const errors = [...parse.errors];
   const db = getDb();
   const colOf = (field: string) => parse.headers.find((h) => parse.mapping[h] === field) ?? null;

@@ -82,3 +82,25 @@ describe("parseSampleCsv", () => {
     expect(r.rows[1].sample).toMatchObject({ description: "-80 mesh, B horizon", suspectedAsbestos: false });
   });
 });
+
+describe("default time zone chosen by the importer", () => {
+  test("local times without a zone use it (and store it); rows with their own zone keep theirs", () => {
+    const csv = "code,sample_type,collected_at,collected_tz\nT-1,soil,2026-07-10 12:00,\nT-2,soil,2026-07-10 12:00,UTC\nT-3,soil,,\n";
+    const r = parseSampleCsv(csv, { defaultTimeZone: "Europe/Madrid" });
+    expect(r.errors).toEqual([]);
+    // Madrid is UTC+2 in July (EU summer time).
+    expect(r.rows[0].sample).toMatchObject({ collectedAt: "2026-07-10T10:00:00Z", collectedTz: "Europe/Madrid" });
+    expect(r.rows[1].sample).toMatchObject({ collectedAt: "2026-07-10T12:00:00Z", collectedTz: "UTC" });
+    expect(r.rows[2].sample.collectedTz).toBeUndefined();
+  });
+
+  test("an unknown default zone is a file error", () => {
+    expect(parseSampleCsv("sample_type\nsoil\n", { defaultTimeZone: "Mars/Olympus" }).errors[0].message).toMatch(/not an IANA time zone/);
+  });
+});
+
+test("a one-column file (nothing to detect a delimiter from) imports", () => {
+  const r = parseSampleCsv("sample_type\nsoil\nfloat\n");
+  expect(r.errors).toEqual([]);
+  expect(r.rows.map((x) => x.sample.sampleType)).toEqual(["soil", "float"]);
+});

@@ -75,7 +75,7 @@ export default async function LabelsPage({ params, searchParams }: { params: Pro
         @page { size: A4 portrait; margin: 0; }
         .label-sheet { width: 210mm; height: 297mm; display: grid; grid-template-columns: repeat(${layout.cols}, ${cellW}mm); grid-template-rows: repeat(${layout.rows}, ${cellH}mm); background: white; box-sizing: border-box; }
         .label-cell { box-sizing: border-box; padding: 2.5mm 3mm; overflow: hidden; display: flex; gap: 2.5mm; align-items: center; }
-        .label-qr svg { width: ${Math.min(cellH - 6, 30)}mm; height: ${Math.min(cellH - 6, 30)}mm; display: block; }
+        .label-qr svg { width: ${Math.min(cellH - 8, 24)}mm; height: ${Math.min(cellH - 8, 24)}mm; display: block; }
         @media screen { .label-sheet { outline: 1px solid var(--color-line); margin-bottom: 8mm; } .label-cell { outline: 1px dashed #d6d3cc; } }
         @media print {
           body * { visibility: hidden; }
@@ -119,7 +119,8 @@ export default async function LabelsPage({ params, searchParams }: { params: Pro
                   <div className="min-w-0 text-[2.9mm] leading-tight text-black">
                     <p className="truncate font-mono text-[4.2mm] font-bold tracking-tight">{l.code}</p>
                     <p className="truncate">{result!.project.code} · {result!.project.name}</p>
-                    <p>{localDate(l.collectedAt, l.collectedTz)}{l.stationCode ? ` · ${l.stationCode}` : ""}</p>
+                    <p>{localDate(l.collectedAt, l.collectedTz)}</p>
+                    {l.stationCode && <p className="truncate">Stn {l.stationCode}</p>}
                     <p className="truncate">{SAMPLE_TYPE_LABELS[l.sampleType as keyof typeof SAMPLE_TYPE_LABELS] ?? l.sampleType}</p>
                     {l.suspectedAsbestos && <p className="font-bold">⚠ Suspected asbestos</p>}
                   </div>
