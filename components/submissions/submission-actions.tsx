@@ -40,7 +40,7 @@ function toIso(v: FormDataEntryValue | null): string | undefined {
 }
 const text = (v: FormDataEntryValue | null) => String(v ?? "").trim() || null;
 
-function useAction() {
+function useAction(onDone?: (msg: string | null) => void) {
   const router = useRouter();
   const [pending, setPending] = useState(false);
   const [error, setError] = useState<string | null>(null);
@@ -52,7 +52,9 @@ function useAction() {
     setFields({});
     setNotice(null);
     try {
-      setNotice(await fn());
+      const msg = await fn();
+      setNotice(msg);
+      onDone?.(msg);
       router.refresh();
     } catch (err) {
       if (err instanceof ApiError) {
@@ -93,8 +95,8 @@ function Feedback({ error, fields, notice }: { error: string | null; fields: Rec
 
 const mailNotice = (what: string, m: MailOutcome) => (m.sent ? `${what} E-mail sent to ${m.to.join(", ")}.` : `${what} The e-mail could not be sent (${m.error ?? "unknown error"}); use “Send the e-mail again”.`);
 
-function SendForm({ projectId, submission }: Pick<Props, "projectId" | "submission">) {
-  const a = useAction();
+function SendForm({ projectId, submission, onDone }: Pick<Props, "projectId" | "submission"> & { onDone: (m: string | null) => void }) {
+  const a = useAction(onDone);
   const url = `/api/projects/${projectId}/submissions/${submission.id}/send`;
   return (
     <form
@@ -160,8 +162,8 @@ function ResendButton({ projectId, submission }: Pick<Props, "projectId" | "subm
   );
 }
 
-function IntakeForm({ projectId, submission, samples }: Pick<Props, "projectId" | "submission" | "samples">) {
-  const a = useAction();
+function IntakeForm({ projectId, submission, samples, onDone }: Pick<Props, "projectId" | "submission" | "samples"> & { onDone: (m: string | null) => void }) {
+  const a = useAction(onDone);
   const [conditions, setConditions] = useState<Record<string, IntakeCondition>>(() => Object.fromEntries(samples.map((s) => [s.id, "received" as IntakeCondition])));
   return (
     <form
@@ -263,7 +265,8 @@ function CustodyForm({ projectId, submission, samples, lab }: Pick<Props, "proje
       className="space-y-3"
       onSubmit={(e) => {
         e.preventDefault();
-        const f = new FormData(e.currentTarget);
+        const form = e.currentTarget;
+        const f = new FormData(form);
         void a.run(async () => {
           const w = String(f.get("weightKg") ?? "").replace(",", ".").trim();
           const r = await fetchJson<{ results: { change: string }[] }>(`/api/projects/${projectId}/submissions/${submission.id}/custody`, {
@@ -282,6 +285,7 @@ function CustodyForm({ projectId, submission, samples, lab }: Pick<Props, "proje
             },
           });
           setSelected([]);
+          form.reset();
           const kept = r.results.filter((x) => x.change === "keep").length;
           return `${CUSTODY_EVENT_LABELS[event]} recorded for ${r.results.length} sample${r.results.length === 1 ? "" : "s"}${kept ? ` (status kept for ${kept})` : ""}.`;
         });
@@ -389,25 +393,32 @@ function LateArrival({ projectId, submissionId, missing }: { projectId: string; 
 
 /** The actions the viewer's role allows at the submission's stage. */
 export function SubmissionActions({ projectId, submission, samples, can }: Props) {
+  // Kept here so the outcome of "send" / "intake" stays visible after the page moves to the next stage.
+  const [flash, setFlash] = useState<string | null>(null);
   const stage = submission.status;
   const showSend = stage === "draft" && can.send;
   const showIntake = stage === "sent" && can.lab;
   const showSteps = ["received", "in_progress", "reported"].includes(stage) && (can.lab || can.handOver);
   const showResend = stage !== "draft" && can.send;
-  if (!showSend && !showIntake && !showSteps && !showResend) return null;
+  if (!showSend && !showIntake && !showSteps && !showResend && !flash) return null;
   return (
     <Card className="space-y-3">
+      {flash && (
+        <p role="status" className="rounded-md bg-green-50 px-3 py-2 text-sm text-ok">
+          {flash}
+        </p>
+      )}
       {showSend && (
         <>
           <h2 className="font-semibold">Send to the lab</h2>
           <p className="text-sm text-muted">Records a “dispatched” custody event for every bag and e-mails the lab the manifest link.</p>
-          <SendForm projectId={projectId} submission={submission} />
+          <SendForm projectId={projectId} submission={submission} onDone={setFlash} />
         </>
       )}
       {showIntake && (
         <>
           <h2 className="font-semibold">Lab intake</h2>
-          <IntakeForm projectId={projectId} submission={submission} samples={samples} />
+          <IntakeForm projectId={projectId} submission={submission} samples={samples} onDone={setFlash} />
         </>
       )}
       {showSteps && (

@@ -72,11 +72,12 @@ export async function appendCustodyEvent(tx: DbOrTx, actor: Actor, sample: Custo
       handedTo: w.handedTo ?? null,
     })
     .returning();
-  const moveLocation = !!w.location && w.event !== "discarded";
-  if (plan.next !== sample.status || moveLocation) {
+  // Where the bag is now: in transit after a dispatch, else the event's place (a discard keeps the last place).
+  const where = w.event === "dispatched" ? `In transit${w.waybill ? ` (waybill ${w.waybill})` : ""}` : w.event !== "discarded" ? w.location : null;
+  if (plan.next !== sample.status || where) {
     await tx
       .update(samples)
-      .set({ status: plan.next, ...(moveLocation && { storageLocation: w.location }), ...(w.weightKg != null && w.event === "received" && { weightKg: w.weightKg }), version: sample.version + 1 })
+      .set({ status: plan.next, ...(where && { storageLocation: where }), ...(w.weightKg != null && w.event === "received" && { weightKg: w.weightKg }), version: sample.version + 1 })
       .where(eq(samples.id, sample.id));
     sample.version += 1;
   }

@@ -24,6 +24,12 @@ export function escapeHtml(s: string): string {
 
 const seg = encodeURIComponent;
 
+/** "2026-03-20 09:00 UTC" from an ISO instant (unparseable input comes back as given). */
+export function formatUtc(iso: string): string {
+  const d = new Date(iso);
+  return Number.isNaN(d.getTime()) ? iso : `${d.toISOString().slice(0, 16).replace("T", " ")} UTC`;
+}
+
 /** Absolute URL of an app path. */
 export function appLink(baseUrl: string, path: string): string {
   return `${baseUrl.replace(/\/+$/, "")}${path.startsWith("/") ? path : `/${path}`}`;
@@ -126,7 +132,7 @@ export function submissionReceivedMail(input: {
   const subject = `Submission ${s.code} received by the lab${issues ? ` — ${issues} discrepanc${issues === 1 ? "y" : "ies"}` : ""}`;
   const summary = `${counts.received} received, ${counts.damaged} damaged, ${counts.missing} missing, ${counts.extra} extra`;
   const text = [
-    `${input.receivedBy} recorded the intake of submission ${s.code} (${project.name}) at ${input.receivedAt}.`,
+    `${input.receivedBy} recorded the intake of submission ${s.code} (${project.name}) at ${formatUtc(input.receivedAt)}.`,
     `Lab batch: ${s.labReference ?? "—"}`,
     `Bags: ${summary}.`,
     ...(input.discrepancies.length ? ["", "Discrepancies:", ...input.discrepancies.map((d) => `${d.code}: ${d.condition}${d.note ? ` — ${d.note}` : ""}`)] : []),
@@ -136,7 +142,7 @@ export function submissionReceivedMail(input: {
   const html = layout(
     `Submission ${s.code} received`,
     [
-      `<p>${escapeHtml(input.receivedBy)} recorded the intake of submission <strong>${escapeHtml(s.code)}</strong> (${escapeHtml(project.name)}) at ${escapeHtml(input.receivedAt)}.</p>`,
+      `<p>${escapeHtml(input.receivedBy)} recorded the intake of submission <strong>${escapeHtml(s.code)}</strong> (${escapeHtml(project.name)}) at ${escapeHtml(formatUtc(input.receivedAt))}.</p>`,
       `<p>Lab batch: ${escapeHtml(s.labReference ?? "—")}<br>Bags: ${escapeHtml(summary)}.</p>`,
       input.discrepancies.length ? `<ul>${input.discrepancies.map((d) => `<li>${escapeHtml(d.code)}: ${escapeHtml(d.condition)}${d.note ? ` — ${escapeHtml(d.note)}` : ""}</li>`).join("")}</ul>` : "",
       button(url, "Open the submission"),
@@ -148,7 +154,7 @@ export function submissionReceivedMail(input: {
 /** To the invitee: a single-use link to set a password (or, for an existing account, to join). */
 export function invitationMail(input: { baseUrl: string; token: string; projectName: string; roleLabel: string; invitedBy: string; expiresAt: Date }): MailContent {
   const url = appLink(input.baseUrl, invitePath(input.token));
-  const until = input.expiresAt.toISOString().slice(0, 16).replace("T", " ") + " UTC";
+  const until = formatUtc(input.expiresAt.toISOString());
   const subject = `${input.invitedBy} invited you to ${input.projectName} on Lithodex`;
   const text = [
     `${input.invitedBy} invited you to join the project "${input.projectName}" as ${input.roleLabel}.`,

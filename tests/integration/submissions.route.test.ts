@@ -127,6 +127,8 @@ describe("submission → sent → received → prepared → scanned", () => {
     expect(events).toHaveLength(3);
     expect(events.every((e) => e.waybill === "WB-7734-2026" && e.handedTo === "Invented Couriers S.L." && e.sealNumber === "SEAL-0042" && e.occurredAt === T(0))).toBe(true);
     for (const id of ids) expect(await statusOf(id)).toBe("dispatched");
+    const [moved] = await getDb().select().from(samples).where(eq(samples.id, ids[0]));
+    expect(moved.storageLocation).toBe("In transit (waybill WB-7734-2026)");
   });
 
   test("sending twice is a 409 and writes nothing; resendEmail only re-sends the message", async () => {

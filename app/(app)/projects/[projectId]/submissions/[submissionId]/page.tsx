@@ -8,7 +8,7 @@ import { buttonClass } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { roleAllows } from "@/lib/dal/permissions";
 import { currentActor, orNotFound } from "@/lib/dal/session";
-import { getSubmissionOrThrow } from "@/lib/dal/submissions";
+import { getSubmissionOrThrow, type SubmissionDetail } from "@/lib/dal/submissions";
 import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS } from "@/lib/format";
 import type { CustodyEvent } from "@/lib/validation/custody";
 import type { IntakeCondition } from "@/lib/validation/submission";
@@ -22,6 +22,20 @@ function Row({ label, children }: { label: string; children: React.ReactNode }) 
       <dd className="col-span-2 whitespace-pre-line text-sm">{children || "—"}</dd>
     </div>
   );
+}
+
+type EventRow = SubmissionDetail["events"][number];
+
+/** One log row per step taken together (same step, time, person, place, seal, note), listing its samples. */
+function groupEvents(events: EventRow[], codeOf: Map<string, string>) {
+  const groups = new Map<string, { key: string; e: EventRow; codes: string[] }>();
+  for (const e of events) {
+    const key = [e.event, e.occurredAt, e.actorName, e.location, e.handedTo, e.sealNumber, e.waybill, e.condition, e.note, e.weightKg].join("|");
+    const g = groups.get(key) ?? { key, e, codes: [] };
+    g.codes.push(codeOf.get(e.sampleId) ?? "?");
+    groups.set(key, g);
+  }
+  return [...groups.values()].map((g) => ({ ...g, codes: g.codes.sort() }));
 }
 
 export default async function SubmissionPage({ params }: { params: Promise<{ projectId: string; submissionId: string }> }) {
@@ -134,7 +148,7 @@ export default async function SubmissionPage({ params }: { params: Promise<{ pro
               <thead className="text-left text-xs uppercase tracking-wide text-muted">
                 <tr>
                   <th className="py-1 pr-3 font-medium">When</th>
-                  <th className="py-1 pr-3 font-medium">Sample</th>
+                  <th className="py-1 pr-3 font-medium">Samples</th>
                   <th className="py-1 pr-3 font-medium">Step</th>
                   <th className="py-1 pr-3 font-medium">By</th>
                   <th className="py-1 pr-3 font-medium">Where</th>
@@ -143,18 +157,18 @@ export default async function SubmissionPage({ params }: { params: Promise<{ pro
                 </tr>
               </thead>
               <tbody>
-                {d.events.map((e) => (
-                  <tr key={e.id} className="border-t border-line align-top">
-                    <td className="whitespace-nowrap py-1.5 pr-3">{formatInstant(e.occurredAt)}</td>
-                    <td className="py-1.5 pr-3">{codeOf.get(e.sampleId) ?? "—"}</td>
+                {groupEvents(d.events, codeOf).map((g) => (
+                  <tr key={g.key} className="border-t border-line align-top">
+                    <td className="whitespace-nowrap py-1.5 pr-3">{formatInstant(g.e.occurredAt)}</td>
+                    <td className="py-1.5 pr-3">{g.codes.join(", ")}</td>
                     <td className="py-1.5 pr-3">
-                      {CUSTODY_EVENT_LABELS[e.event as CustodyEvent]}
-                      {e.condition && e.condition !== "received" && <span className="text-danger"> ({e.condition})</span>}
+                      {CUSTODY_EVENT_LABELS[g.e.event as CustodyEvent]}
+                      {g.e.condition && g.e.condition !== "received" && <span className="text-danger"> ({g.e.condition})</span>}
                     </td>
-                    <td className="py-1.5 pr-3">{e.actorName ?? "—"}</td>
-                    <td className="py-1.5 pr-3">{[e.location, e.handedTo && `→ ${e.handedTo}`].filter(Boolean).join(" ") || "—"}</td>
-                    <td className="py-1.5 pr-3">{[e.sealNumber, e.waybill].filter(Boolean).join(" / ") || "—"}</td>
-                    <td className="py-1.5 pr-3">{e.note ?? ""}</td>
+                    <td className="py-1.5 pr-3">{g.e.actorName ?? "—"}</td>
+                    <td className="py-1.5 pr-3">{[g.e.location, g.e.handedTo && `→ ${g.e.handedTo}`].filter(Boolean).join(" ") || "—"}</td>
+                    <td className="py-1.5 pr-3">{[g.e.sealNumber, g.e.waybill].filter(Boolean).join(" / ") || "—"}</td>
+                    <td className="py-1.5 pr-3">{g.e.note ?? ""}</td>
                   </tr>
                 ))}
               </tbody>

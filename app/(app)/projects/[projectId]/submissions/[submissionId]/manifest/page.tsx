@@ -30,6 +30,7 @@ export default async function ManifestPage({ params }: { params: Promise<{ proje
   const d = await orNotFound(getSubmissionOrThrow(actor, projectId, submissionId));
   const listed = d.samples.filter((s) => s.intakeCondition !== "extra");
   const flagged = listed.filter((s) => s.suspectedAsbestos).map((s) => s.code);
+  const seals = [...new Set(d.events.filter((e) => e.event === "dispatched" && e.sealNumber).map((e) => e.sealNumber!))];
   const total = listed.reduce((sum, s) => sum + (s.weightKg ?? 0), 0);
   return (
     <article className="mx-auto max-w-4xl space-y-4 bg-white p-6 text-ink shadow-sm print:max-w-none print:p-0 print:shadow-none" aria-label="Packing list">
@@ -125,7 +126,7 @@ export default async function ManifestPage({ params }: { params: Promise<{ proje
         <SignatureBlock title="Received by (lab)" />
       </section>
       <p className="text-xs text-muted print:text-black">
-        Seal / tamper-tag numbers: ______________________ · Condition on receipt: ______________________ · Lab batch: ______________
+        Seal / tamper-tag numbers: {seals.length ? seals.join(", ") : "______________________"} · Condition on receipt: ______________________ · Lab batch: ______________
       </p>
       <p className="text-[11px] text-muted print:text-black">{SILICA_NOTE} Follow local regulations and your lab&apos;s accredited procedures.</p>
     </article>
