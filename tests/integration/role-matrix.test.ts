@@ -3,6 +3,9 @@ import { GET as listProjects } from "@/app/api/projects/route";
 import { GET as getProject } from "@/app/api/projects/[projectId]/route";
 import { GET as listSamples, POST as createSample } from "@/app/api/projects/[projectId]/samples/route";
 import { GET as getSample, PATCH as patchSample } from "@/app/api/projects/[projectId]/samples/[sampleId]/route";
+import { GET as listSubmissions, POST as createSubmission } from "@/app/api/projects/[projectId]/submissions/route";
+import { GET as sampleCustody } from "@/app/api/projects/[projectId]/samples/[sampleId]/custody/route";
+import { GET as listMembers, POST as inviteMember } from "@/app/api/projects/[projectId]/members/route";
 import { getDb } from "@/db";
 import { samples, type ProjectRole } from "@/db/schema";
 import { PERMISSIONS, type Permission } from "@/lib/dal/permissions";
@@ -39,6 +42,12 @@ const ROUTES: RouteCase[] = [
     params: (w, f) => ({ projectId: w.projectId, sampleId: f.sampleId }),
     body: () => ({ version: 1, description: "edited" }),
   },
+  // Lab hand-off (stateful steps — send, receive, custody — are covered per role in submissions/custody tests).
+  { name: "GET submissions", handler: listSubmissions, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
+  { name: "POST submissions", handler: createSubmission, method: "POST", permission: "submission.write", params: (w) => ({ projectId: w.projectId }), body: (_w, f) => ({ sampleIds: [f.sampleId], requestedAnalysis: ["XRD bulk"] }) },
+  { name: "GET sample custody", handler: sampleCustody, method: "GET", permission: "project.read", params: (w, f) => ({ projectId: w.projectId, sampleId: f.sampleId }) },
+  { name: "GET members", handler: listMembers, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
+  { name: "POST members (invite)", handler: inviteMember, method: "POST", permission: "project.manage", params: (w) => ({ projectId: w.projectId }), body: () => ({ email: `rm-${crypto.randomUUID().slice(0, 8)}@example.test`, role: "consultant" }) },
 ];
 
 const ROLES: (ProjectRole | "admin" | "outsider")[] = ["lead", "field_geologist", "lab_analyst", "consultant", "admin", "outsider"];
