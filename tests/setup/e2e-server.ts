@@ -3,6 +3,7 @@ import { mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import type { TestProject } from "vitest/node";
+import { startLocalServices } from "../../scripts/services";
 
 declare module "vitest" {
   export interface ProvidedContext {
@@ -34,7 +35,9 @@ export default async function setup(project: TestProject) {
   };
   run("npx", ["tsx", "db/seed/demo.ts"]);
   if (!process.env.E2E_SKIP_BUILD) run("npx", ["next", "build"]);
-  const server: ChildProcess = spawn("npx", ["next", "start", "-p", String(port)], { env, stdio: ["ignore", "pipe", "inherit"], detached: true });
+  // Fake SMTP: mail lands in LITHODEX_DATA_DIR/outbox and /dev/outbox shows it (LITHODEX_SHOW_OUTBOX=1).
+  const services = await startLocalServices({ dataDir: env.LITHODEX_DATA_DIR });
+  const server: ChildProcess = spawn("npx", ["next", "start", "-p", String(port)], { env: { ...env, ...services.env }, stdio: ["ignore", "pipe", "inherit"], detached: true });
   const deadline = Date.now() + 60_000;
   for (;;) {
     try {
@@ -49,6 +52,7 @@ export default async function setup(project: TestProject) {
   project.provide("baseUrl", baseUrl);
   project.provide("dataDir", dir);
   return () => {
+    void services.stop();
     if (server.pid) process.kill(-server.pid, "SIGTERM");
   };
 }
