@@ -297,7 +297,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
               .sort((a, b) => a.code.localeCompare(b.code))
               .map((s: MapStation) => (
                 <li key={s.id} className="flex items-center justify-between gap-2">
-                  <Link href={`/projects/${projectId}/stations/${s.id}`} className="truncate text-brand hover:underline">
+                  <Link href={`/projects/${projectId}/stations/${s.id}`} prefetch={false} className="truncate text-brand hover:underline">
                     {s.code}
                     {s.name ? ` — ${s.name}` : ""}
                   </Link>
