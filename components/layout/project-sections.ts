@@ -7,6 +7,7 @@ export function projectSections(projectId: string, role: ProjectRole): { href: s
   return [
     { href: base, label: "Overview" },
     { href: `${base}/samples`, label: "Samples" },
+    { href: `${base}/stations`, label: "Stations" },
     { href: `${base}/submissions`, label: "Submissions" },
     { href: `${base}/scans`, label: "Scans" },
     { href: `${base}/map`, label: "Map" },

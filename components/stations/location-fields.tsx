@@ -5,33 +5,9 @@ import { Button } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { formatDmsPair, parseLatLon, toUtm, formatUtm, UtmRangeError } from "@/lib/geo";
 import { ELEVATION_REFS, LOCATION_SOURCES } from "@/lib/vocabulary";
+import { ELEVATION_REF_LABELS, LOCATION_SOURCE_LABELS, type ElevationRef, type LocationSource, type LocationValue } from "./location-labels";
 
-export type LocationSource = (typeof LOCATION_SOURCES)[number];
-export type ElevationRef = (typeof ELEVATION_REFS)[number];
-
-export interface LocationValue {
-  lat: number | null;
-  lon: number | null;
-  elevationM: number | null;
-  elevationRef: ElevationRef | null;
-  horizontalAccuracyM: number | null;
-  locationSource: LocationSource | null;
-  locationFixedAt: string | null;
-}
-
-export const LOCATION_SOURCE_LABELS: Record<LocationSource, string> = {
-  device_gnss: "This device (GNSS / browser location)",
-  external_gnss: "External GNSS receiver",
-  map: "Picked on a map",
-  photo_exif: "Photo EXIF",
-  legacy: "Copied from legacy data",
-  other: "Other",
-};
-
-export const ELEVATION_REF_LABELS: Record<ElevationRef, string> = {
-  msl: "above mean sea level (maps)",
-  ellipsoid: "above WGS84 ellipsoid (raw GNSS)",
-};
+export type { ElevationRef, LocationSource, LocationValue };
 
 const formatPair = (lat: number | null, lon: number | null) => (lat == null || lon == null ? "" : `${lat.toFixed(6)}, ${lon.toFixed(6)}`);
 const num = (s: string): number | null => (s.trim() === "" ? null : Number(s));
