@@ -55,7 +55,7 @@ export async function notifySignOff({ projectId, scanId, sampleId, signedOffBy }
 
   const reportedSubmissions: string[] = [];
   const candidates = await db
-    .select({ id: submissions.id, code: submissions.code })
+    .select({ id: submissions.id, code: submissions.code, sentAt: submissions.sentAt })
     .from(submissionSamples)
     .innerJoin(submissions, eq(submissions.id, submissionSamples.submissionId))
     .where(and(eq(submissionSamples.sampleId, sampleId), isNull(submissions.reportedAt), inArray(submissions.status, ["received", "in_progress"])));
@@ -64,7 +64,8 @@ export async function notifySignOff({ projectId, scanId, sampleId, signedOffBy }
       .select({
         sampleId: submissionSamples.sampleId,
         // Qualified by hand: drizzle leaves column names bare inside sql`` subqueries.
-        signed: sql<number>`(select count(*) from "scans" sc where sc."sample_id" = "submission_samples"."sample_id" and (sc."status" = 'signed_off' or sc."signed_off_at" is not null))`,
+        // Only scans made for this submission count (after it was sent), not results of an earlier batch.
+        signed: sql<number>`(select count(*) from "scans" sc where sc."sample_id" = "submission_samples"."sample_id" and (sc."status" = 'signed_off' or sc."signed_off_at" is not null) and sc."created_at" >= ${sub.sentAt?.getTime() ?? 0})`,
       })
       .from(submissionSamples)
       .where(and(eq(submissionSamples.submissionId, sub.id), sql`coalesce(${submissionSamples.intakeCondition}, '') <> 'missing'`));

@@ -284,9 +284,13 @@ describe("submission → sent → received → prepared → scanned", () => {
     const msg = mail.messages.slice(seen)[0];
     expect(msg.subject).toBe("Results signed off for sample SUBT-0001");
     expect(linkContaining(msg.text, "/scans/")).toBe(`http://localhost:3000/projects/${w.projectId}/scans/${s1.id}`);
-    await addScan(ids[1]);
+    // A signed-off scan from before this submission was sent (an earlier batch) does not count.
+    await db.insert(scans).values({ projectId: w.projectId, sampleId: ids[1], fileKey: "old", originalName: "old.xy", sha256: "1".repeat(64), format: "xy", wavelengthA: 1.5406, status: "signed_off", signedOffAt: new Date(Date.UTC(2026, 0, 5)), createdAt: new Date(Date.UTC(2026, 0, 5)) });
     const [s3] = await addScan(ids[2]);
-    const last = await notifySignOff({ projectId: w.projectId, scanId: s3.id, sampleId: ids[2], signedOffBy: w.userIds.lab_analyst });
+    const notYet = await notifySignOff({ projectId: w.projectId, scanId: s3.id, sampleId: ids[2], signedOffBy: w.userIds.lab_analyst });
+    expect(notYet.reportedSubmissions).toEqual([]);
+    const [s2] = await addScan(ids[1]);
+    const last = await notifySignOff({ projectId: w.projectId, scanId: s2.id, sampleId: ids[1], signedOffBy: w.userIds.lab_analyst });
     expect(last.reportedSubmissions).toEqual([subId]);
     const again = await notifySignOff({ projectId: w.projectId, scanId: s3.id, sampleId: ids[2], signedOffBy: w.userIds.lab_analyst });
     expect(again.reportedSubmissions).toEqual([]);
