@@ -6,6 +6,9 @@ import { GET as getSample, PATCH as patchSample } from "@/app/api/projects/[proj
 import { GET as listSubmissions, POST as createSubmission } from "@/app/api/projects/[projectId]/submissions/route";
 import { GET as sampleCustody } from "@/app/api/projects/[projectId]/samples/[sampleId]/custody/route";
 import { GET as listMembers, POST as inviteMember } from "@/app/api/projects/[projectId]/members/route";
+import { GET as exportSamples } from "@/app/api/projects/[projectId]/samples/export/route";
+import { POST as importSamples } from "@/app/api/projects/[projectId]/samples/import/route";
+import { GET as listTilePackages } from "@/app/api/projects/[projectId]/tile-packages/route";
 import { getDb } from "@/db";
 import { samples, type ProjectRole } from "@/db/schema";
 import { PERMISSIONS, type Permission } from "@/lib/dal/permissions";
@@ -48,6 +51,10 @@ const ROUTES: RouteCase[] = [
   { name: "GET sample custody", handler: sampleCustody, method: "GET", permission: "project.read", params: (w, f) => ({ projectId: w.projectId, sampleId: f.sampleId }) },
   { name: "GET members", handler: listMembers, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "POST members (invite)", handler: inviteMember, method: "POST", permission: "project.manage", params: (w) => ({ projectId: w.projectId }), body: () => ({ email: `rm-${crypto.randomUUID().slice(0, 8)}@example.test`, role: "consultant" }) },
+  // Register import/export and map layers (uploads need a file body: see tile-packages.route.test.ts).
+  { name: "GET samples export", handler: exportSamples, method: "GET", permission: "export.read", params: (w) => ({ projectId: w.projectId }) },
+  { name: "POST samples import (preview)", handler: importSamples, method: "POST", permission: "sample.write", params: (w) => ({ projectId: w.projectId }), body: () => ({ csv: "sample_type\nsoil\n" }) },
+  { name: "GET tile packages", handler: listTilePackages, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
 ];
 
 const ROLES: (ProjectRole | "admin" | "outsider")[] = ["lead", "field_geologist", "lab_analyst", "consultant", "admin", "outsider"];
