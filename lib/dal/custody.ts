@@ -1,8 +1,8 @@
 import "server-only";
-import { and, asc, eq, inArray } from "drizzle-orm";
+import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db";
 import { custodyEvents, samples, submissionSamples, submissions } from "@/db/schema";
-import { custodyBatchSchema, custodyStepSchema, planStatusChange, type CustodyEvent, type StatusPolicy } from "@/lib/validation/custody";
+import { LAB_STEP_EVENTS, custodyBatchSchema, custodyStepSchema, planStatusChange, type CustodyEvent, type StatusPolicy } from "@/lib/validation/custody";
 import type { SampleStatus } from "@/lib/vocabulary";
 import { authorize, type Actor } from "./actor";
 import { audit, type DbOrTx } from "./audit";
@@ -54,11 +54,12 @@ export function assertStatusPlans(list: CustodySample[], event: CustodyEvent, po
 export async function appendCustodyEvent(tx: DbOrTx, actor: Actor, sample: CustodySample, w: CustodyWrite) {
   const plan = planStatusChange(sample.status, w.event, w.statusPolicy);
   if (!plan.ok) throw conflict(`${sample.code}: ${plan.reason}`, { sampleId: sample.id, status: sample.status, event: w.event });
+  const submissionId = w.submissionId ?? (await attachToOpenSubmission(tx, actor, w.projectId, sample.id, w.event));
   const [row] = await tx
     .insert(custodyEvents)
     .values({
       sampleId: sample.id,
-      submissionId: w.submissionId,
+      submissionId,
       event: w.event,
       actorId: actor.userId,
       actorName: w.handledBy || actor.name,
@@ -92,6 +93,27 @@ export async function appendCustodyEvent(tx: DbOrTx, actor: Actor, sample: Custo
   const from = sample.status;
   sample.status = plan.next;
   return { event: row, from, to: plan.next, change: plan.change };
+}
+
+/**
+ * A lab step recorded without a submission (e.g. a scan upload) belongs to the sample's submission at the lab,
+ * if any; its first preparation or scan moves that submission to "in_progress".
+ */
+async function attachToOpenSubmission(tx: DbOrTx, actor: Actor, projectId: string, sampleId: string, event: CustodyEvent): Promise<string | null> {
+  if (!(LAB_STEP_EVENTS as readonly string[]).includes(event)) return null;
+  const [open] = await tx
+    .select({ id: submissions.id, status: submissions.status })
+    .from(submissionSamples)
+    .innerJoin(submissions, eq(submissions.id, submissionSamples.submissionId))
+    .where(and(eq(submissionSamples.sampleId, sampleId), inArray(submissions.status, ["received", "in_progress"])))
+    .orderBy(desc(submissions.createdAt))
+    .limit(1);
+  if (!open) return null;
+  if (open.status === "received" && (event === "prepared" || event === "scanned")) {
+    await tx.update(submissions).set({ status: "in_progress" }).where(and(eq(submissions.id, open.id), eq(submissions.status, "received")));
+    await audit(tx, actor, { projectId, action: "status", entity: "submission", entityId: open.id, before: { status: "received" }, after: { status: "in_progress" } });
+  }
+  return open.id;
 }
 
 /** Custody history of one sample, oldest first, with intake discrepancies recorded on submissions. */

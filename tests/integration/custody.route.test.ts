@@ -7,7 +7,9 @@ import { POST as sampleRoute } from "@/app/api/projects/[projectId]/submissions/
 import { POST as sendRoute } from "@/app/api/projects/[projectId]/submissions/[submissionId]/send/route";
 import { POST as createRoute } from "@/app/api/projects/[projectId]/submissions/route";
 import { getDb } from "@/db";
-import { custodyEvents, projects, samples, submissionSamples } from "@/db/schema";
+import { custodyEvents, projects, samples, submissionSamples, submissions } from "@/db/schema";
+import { getActor } from "@/lib/dal/actor";
+import { appendCustodyEvent } from "@/lib/dal/custody";
 import { call, makeWorld, type World } from "../helpers/app";
 
 // Chain-of-custody rules from DOMAIN.md §1.3 (every transfer with date-time, from/to, seal, condition) and the
@@ -104,5 +106,18 @@ describe("custody steps", () => {
     const r = await call(sampleRoute, { method: "POST", params: { ...p, sampleId: ids[0] }, cookie: w.cookies.lab_analyst, body: { event: "teleported", weightKg: -1, occurredAt: "last Tuesday", extra: 1 } });
     expect(r.status).toBe(422);
     expect(Object.keys(r.json.error.fields).sort()).toEqual(["_", "event", "occurredAt", "weightKg"]);
+  });
+});
+
+describe("custody written by other modules", () => {
+  test("a lab step without a submission (e.g. a scan upload) is filed under the sample's submission at the lab", async () => {
+    const { p, ids } = await received(1);
+    const actor = (await getActor(new Headers({ cookie: w.cookies.lab_analyst })))!;
+    const [s] = await getDb().select().from(samples).where(eq(samples.id, ids[0]));
+    await getDb().transaction((tx) => appendCustodyEvent(tx, actor, s, { projectId: w.projectId, submissionId: null, event: "scanned", occurredAt: new Date().toISOString(), note: "scan upload" }));
+    const [ev] = await getDb().select().from(custodyEvents).where(eq(custodyEvents.note, "scan upload"));
+    expect(ev.submissionId).toBe(p.submissionId);
+    const [sub] = await getDb().select().from(submissions).where(eq(submissions.id, p.submissionId));
+    expect(sub.status).toBe("in_progress");
   });
 });
