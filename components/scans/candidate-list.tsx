@@ -75,90 +75,102 @@ export interface CandidateListProps {
  */
 export function CandidateList({ phases, mixture, canReview, locked, busyId, overlayIds, onToggleOverlay, onDecide }: CandidateListProps) {
   const [open, setOpen] = useState<string | null>(null);
+  const [showAll, setShowAll] = useState(false);
   const inMixture = new Set(mixture.map((m) => m.referencePhaseId));
+  // Weak, undecided candidates beyond the first five are folded away until asked for.
+  const main = phases.filter((p) => p.status !== "candidate" || p.confident || (p.rank ?? 0) <= 5 || overlayIds.includes(p.referencePhaseId));
+  const folded = phases.length - main.length;
+  const visible = showAll ? phases : main;
   if (phases.length === 0) return <p className="text-sm text-muted">No candidate phases: the peaks matched nothing in the reference library well enough (amorphous material, a phase not in the library, or too few peaks).</p>;
   return (
-    <ol className="space-y-2" data-testid="candidate-list">
-      {phases.map((p) => {
-        const color = overlayIds.includes(p.referencePhaseId) ? OVERLAY_COLORS[overlayIds.indexOf(p.referencePhaseId) % OVERLAY_COLORS.length] : undefined;
-        return (
-          <li
-            key={p.id}
-            data-testid="candidate"
-            data-mineral={p.mineral}
-            data-status={p.status}
-            className={cn("rounded-md border bg-white p-2.5", p.status === "accepted" ? "border-ok/50" : p.status === "rejected" ? "border-line opacity-70" : "border-line")}
-          >
-            <div className="flex flex-wrap items-start justify-between gap-2">
-              <div className="min-w-0">
-                <p className="font-medium">
-                  <span className="mr-1 text-muted tabular-nums">{p.rank != null ? `${p.rank}.` : "+"}</span>
-                  <span className="capitalize">{p.mineral}</span> <span className="text-xs font-normal text-muted">{p.formula}</span>
-                </p>
-                <div className="mt-1 flex flex-wrap items-center gap-1.5 text-xs">
-                  <StatusBadge p={p} />
-                  {p.source === "auto" && (p.confident ? <Badge tone="brand">Confident match</Badge> : <Badge>Weak match</Badge>)}
-                  {p.hazard && <Badge tone={p.hazard === "asbestos" ? "danger" : "oxide"}>{HAZARD_BADGE[p.hazard]}</Badge>}
-                  {p.otherHazards.map((h) => (
-                    <Badge key={h} tone="oxide">
-                      {h.replace("toxic-", "")}
-                    </Badge>
-                  ))}
+    <>
+      <ol className="space-y-2" data-testid="candidate-list">
+        {visible.map((p) => {
+          const color = overlayIds.includes(p.referencePhaseId) ? OVERLAY_COLORS[overlayIds.indexOf(p.referencePhaseId) % OVERLAY_COLORS.length] : undefined;
+          return (
+            <li
+              key={p.id}
+              data-testid="candidate"
+              data-mineral={p.mineral}
+              data-status={p.status}
+              className={cn("rounded-md border bg-white p-2.5", p.status === "accepted" ? "border-ok/50" : p.status === "rejected" ? "border-line opacity-70" : "border-line")}
+            >
+              <div className="flex flex-wrap items-start justify-between gap-2">
+                <div className="min-w-0">
+                  <p className="font-medium">
+                    <span className="mr-1 text-muted tabular-nums">{p.rank != null ? `${p.rank}.` : "+"}</span>
+                    <span className="capitalize">{p.mineral}</span> <span className="text-xs font-normal text-muted">{p.formula}</span>
+                  </p>
+                  <div className="mt-1 flex flex-wrap items-center gap-1.5 text-xs">
+                    <StatusBadge p={p} />
+                    {p.source === "auto" && (p.confident ? <Badge tone="brand">Confident match</Badge> : <Badge>Weak match</Badge>)}
+                    {p.hazard && <Badge tone={p.hazard === "asbestos" ? "danger" : "oxide"}>{HAZARD_BADGE[p.hazard]}</Badge>}
+                    {p.otherHazards.map((h) => (
+                      <Badge key={h} tone="oxide">
+                        {h.replace("toxic-", "")}
+                      </Badge>
+                    ))}
+                  </div>
+                </div>
+                <div className="shrink-0 text-right text-xs tabular-nums">
+                  {p.score != null && (
+                    <p>
+                      Score <span className="font-semibold">{p.score.toFixed(2)}</span>
+                    </p>
+                  )}
                 </div>
               </div>
-              <div className="text-right text-xs tabular-nums">
-                {p.score != null && (
-                  <p>
-                    Score <span className="font-semibold">{p.score.toFixed(2)}</span>
-                  </p>
-                )}
-                {p.wtPercent != null && inMixture.has(p.referencePhaseId) && (
-                  <p title="Semi-quantitative weight fraction by the RIR method (Chung 1974); assumes no amorphous or unidentified content">
-                    ≈ {p.wtPercent.toFixed(0)} wt% <span className="text-muted">(semi-quant.)</span>
-                  </p>
+              {p.wtPercent != null && inMixture.has(p.referencePhaseId) && (
+                <p className="mt-1 text-xs" title="Semi-quantitative weight fraction by the RIR method (Chung 1974); assumes no amorphous or unidentified content">
+                  ≈ {p.wtPercent.toFixed(0)} wt% <span className="text-muted">(semi-quantitative, RIR)</span>
+                </p>
+              )}
+              <div className="mt-2 flex flex-wrap items-center gap-2">
+                <button type="button" className="text-xs font-medium text-brand underline-offset-2 hover:underline" aria-expanded={open === p.id} onClick={() => setOpen(open === p.id ? null : p.id)}>
+                  {p.matched?.length ?? 0} matched line{p.matched?.length === 1 ? "" : "s"}
+                </button>
+                <label className="flex items-center gap-1 text-xs">
+                  <input type="checkbox" checked={!!color} onChange={() => onToggleOverlay(p)} />
+                  <span className="inline-block h-3 w-1" style={{ background: color ?? "#ddd8cd" }} aria-hidden />
+                  Show reference lines
+                </label>
+                {canReview && !locked && (
+                  <span className="ml-auto flex gap-1">
+                    {p.status !== "accepted" && (
+                      <Button type="button" variant="secondary" className="px-2 py-1 text-xs" disabled={busyId === p.id} onClick={() => onDecide(p, "accepted")} aria-label={`Accept ${p.mineral}`}>
+                        Accept
+                      </Button>
+                    )}
+                    {p.status !== "rejected" && (
+                      <Button type="button" variant="secondary" className="px-2 py-1 text-xs" disabled={busyId === p.id} onClick={() => onDecide(p, "rejected")} aria-label={`Reject ${p.mineral}`}>
+                        Reject
+                      </Button>
+                    )}
+                    {p.status !== "candidate" && (
+                      <Button type="button" variant="ghost" className="px-2 py-1 text-xs" disabled={busyId === p.id} onClick={() => onDecide(p, "candidate")} aria-label={`Undo decision on ${p.mineral}`}>
+                        Undo
+                      </Button>
+                    )}
+                  </span>
                 )}
               </div>
-            </div>
-            <div className="mt-2 flex flex-wrap items-center gap-2">
-              <button type="button" className="text-xs font-medium text-brand underline-offset-2 hover:underline" aria-expanded={open === p.id} onClick={() => setOpen(open === p.id ? null : p.id)}>
-                {p.matched?.length ?? 0} matched line{p.matched?.length === 1 ? "" : "s"}
-              </button>
-              <label className="flex items-center gap-1 text-xs">
-                <input type="checkbox" checked={!!color} onChange={() => onToggleOverlay(p)} />
-                <span className="inline-block h-3 w-1" style={{ background: color ?? "#ddd8cd" }} aria-hidden />
-                Show reference lines
-              </label>
-              {canReview && !locked && (
-                <span className="ml-auto flex gap-1">
-                  {p.status !== "accepted" && (
-                    <Button type="button" variant="secondary" className="px-2 py-1 text-xs" disabled={busyId === p.id} onClick={() => onDecide(p, "accepted")} aria-label={`Accept ${p.mineral}`}>
-                      Accept
-                    </Button>
-                  )}
-                  {p.status !== "rejected" && (
-                    <Button type="button" variant="secondary" className="px-2 py-1 text-xs" disabled={busyId === p.id} onClick={() => onDecide(p, "rejected")} aria-label={`Reject ${p.mineral}`}>
-                      Reject
-                    </Button>
-                  )}
-                  {p.status !== "candidate" && (
-                    <Button type="button" variant="ghost" className="px-2 py-1 text-xs" disabled={busyId === p.id} onClick={() => onDecide(p, "candidate")} aria-label={`Undo decision on ${p.mineral}`}>
-                      Undo
-                    </Button>
-                  )}
-                </span>
+              {p.decidedByName && p.status !== "candidate" && (
+                <p className="mt-1 text-xs text-muted">
+                  {p.status === "accepted" ? "Accepted" : "Rejected"} by {p.decidedByName}
+                  {p.decidedAt ? ` on ${new Date(p.decidedAt).toLocaleDateString("en-GB")}` : ""}
+                  {p.note ? ` — ${p.note}` : ""}
+                </p>
               )}
-            </div>
-            {p.decidedByName && p.status !== "candidate" && (
-              <p className="mt-1 text-xs text-muted">
-                {p.status === "accepted" ? "Accepted" : "Rejected"} by {p.decidedByName}
-                {p.decidedAt ? ` on ${new Date(p.decidedAt).toLocaleDateString("en-GB")}` : ""}
-                {p.note ? ` — ${p.note}` : ""}
-              </p>
-            )}
-            {open === p.id && p.matched && <MatchTable lines={p.matched} />}
-          </li>
-        );
-      })}
-    </ol>
+              {open === p.id && p.matched && <MatchTable lines={p.matched} />}
+            </li>
+          );
+        })}
+      </ol>
+      {folded > 0 && (
+        <button type="button" className="mt-2 text-sm font-medium text-brand hover:underline" aria-expanded={showAll} onClick={() => setShowAll(!showAll)}>
+          {showAll ? "Hide weak candidates" : `Show ${folded} more weak candidate${folded === 1 ? "" : "s"}`}
+        </button>
+      )}
+    </>
   );
 }

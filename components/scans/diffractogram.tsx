@@ -30,10 +30,10 @@ export interface DiffractogramProps {
 
 type SeriesKey = "raw" | "background" | "processed" | "fitted";
 const SERIES: { key: SeriesKey; label: string; color: string; width: number; dash?: number[] }[] = [
-  { key: "raw", label: "Observed", color: "#7a8587", width: 1 },
+  { key: "raw", label: "Observed", color: "#3d4a4c", width: 1 },
   { key: "background", label: "Background", color: "#a08a5b", width: 1.25, dash: [6, 4] },
   { key: "processed", label: "Processed (Kα1)", color: "#1d5c63", width: 1.25 },
-  { key: "fitted", label: "Fitted profile", color: "#b8561b", width: 1.25 },
+  { key: "fitted", label: "Fitted profile", color: "rgba(200, 80, 20, 0.8)", width: 1.25 },
 ];
 
 const DEG = Math.PI / 180;
@@ -91,12 +91,13 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, pe
   const [log, setLog] = useState(false);
   const [shown, setShown] = useState<Record<SeriesKey | "peaks", boolean>>({ raw: true, background: true, processed: false, fitted: true, peaks: true });
   const [ready, setReady] = useState(false);
-  const drawState = useRef({ peaks, overlays, showPeaks: shown.peaks, twoTheta, background, log });
+  const [readout, setReadout] = useState<number | null>(null);
+  const drawState = useRef({ peaks, overlays, showPeaks: shown.peaks, twoTheta, background, fitted, log });
   // What the draw hook paints on top of the curves (peak marks, reference lines); a redraw picks it up.
   useEffect(() => {
-    drawState.current = { peaks, overlays, showPeaks: shown.peaks, twoTheta, background, log };
+    drawState.current = { peaks, overlays, showPeaks: shown.peaks, twoTheta, background, fitted, log };
     plotRef.current?.redraw(false);
-  }, [peaks, overlays, shown.peaks, twoTheta, background, log]);
+  }, [peaks, overlays, shown.peaks, twoTheta, background, fitted, log]);
 
   const data = useMemo(() => {
     const clamp = (a: number[]) => (log ? a.map((v) => Math.max(v, 1)) : a);
@@ -117,7 +118,7 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, pe
         width,
         height,
         pxAlign: 0,
-        legend: { show: true, live: true },
+        legend: { show: false },
         cursor: { drag: { x: true, y: false, setScale: true }, points: { show: false } },
         scales: { x: { time: false }, y: log ? { distr: 3, log: 10 } : { auto: true } },
         series: [
@@ -146,6 +147,7 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, pe
           { label: log ? "Counts (log)" : "Counts", labelSize: 24, stroke: "#5f6b6d", grid: { stroke: "#ece8df", width: 1 }, size: 60 },
         ],
         hooks: {
+          setCursor: [(u) => setReadout(u.cursor.idx ?? null)],
           draw: [
             (u) => {
               const st = drawState.current;
@@ -180,7 +182,8 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, pe
                 for (const p of st.peaks) {
                   if (p.twoTheta < xMin || p.twoTheta > xMax) continue;
                   const x = u.valToPos(p.twoTheta, "x", true);
-                  const top = yPos(interp(st.twoTheta, st.background, p.twoTheta) + p.height) - 6 * devicePixelRatio;
+                  // Above the fitted profile at the peak (it includes the Kα2 companion, unlike the Kα1 height).
+                  const top = yPos(Math.max(interp(st.twoTheta, st.fitted, p.twoTheta), interp(st.twoTheta, st.background, p.twoTheta) + p.height)) - 6 * devicePixelRatio;
                   ctx.beginPath();
                   ctx.moveTo(x, top);
                   ctx.lineTo(x - s, top - 1.6 * s);
@@ -350,6 +353,16 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, pe
         className="min-h-[200px] w-full overflow-hidden rounded-md border border-line bg-white focus-visible:outline-2"
         style={{ minHeight: height + 40 }}
       />
+      <p className="min-h-5 text-xs tabular-nums" aria-live="off" data-testid="readout">
+        {readout != null && twoTheta[readout] != null ? (
+          <>
+            2θ <span className="font-medium">{twoTheta[readout].toFixed(3)}°</span> · d <span className="font-medium">{dOf(twoTheta[readout], wavelength).toFixed(4)} Å</span> · observed{" "}
+            <span className="font-medium">{Math.round(raw[readout]).toLocaleString("en")}</span> · background {Math.round(background[readout]).toLocaleString("en")} · fitted {Math.round(fitted[readout]).toLocaleString("en")} counts
+          </>
+        ) : (
+          <span className="text-muted">Point at the plot to read 2θ, d and counts.</span>
+        )}
+      </p>
       <p className="text-xs text-muted">Drag across the plot to zoom, use the wheel over the plot to zoom at the pointer, arrow keys or ◀ ▶ to pan, double-click or Reset to see the whole scan.</p>
     </div>
   );

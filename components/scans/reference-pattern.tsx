@@ -33,8 +33,8 @@ interface PatternResponse {
 /** Stick pattern as SVG: one bar per line, 2θ across, I/I₁₀₀ up. */
 function Sticks({ lines, max }: { lines: PatternResponse["pattern"]["lines"]; max: number }) {
   const W = 800;
-  const H = 220;
-  const pad = { l: 36, r: 8, t: 8, b: 28 };
+  const H = 240;
+  const pad = { l: 36, r: 14, t: 8, b: 40 };
   const x = (tt: number) => pad.l + ((tt - 0) / max) * (W - pad.l - pad.r);
   const y = (i: number) => H - pad.b - (i / 100) * (H - pad.t - pad.b);
   const ticks = Array.from({ length: Math.floor(max / 10) + 1 }, (_, i) => i * 10);
@@ -44,7 +44,7 @@ function Sticks({ lines, max }: { lines: PatternResponse["pattern"]["lines"]; ma
       {ticks.map((t) => (
         <g key={t}>
           <line x1={x(t)} x2={x(t)} y1={H - pad.b} y2={H - pad.b + 4} stroke="#5f6b6d" />
-          <text x={x(t)} y={H - 8} fontSize="11" textAnchor="middle" fill="#5f6b6d">
+          <text x={x(t)} y={H - pad.b + 17} fontSize="11" textAnchor="middle" fill="#5f6b6d">
             {t}
           </text>
         </g>
@@ -59,7 +59,7 @@ function Sticks({ lines, max }: { lines: PatternResponse["pattern"]["lines"]; ma
           <title>{`${l.h} ${l.k} ${l.l}: d ${l.d.toFixed(4)} Å, 2θ ${l.twoTheta.toFixed(3)}°, I ${l.intensity.toFixed(1)}`}</title>
         </line>
       ))}
-      <text x={W - pad.r} y={H - 8} fontSize="11" textAnchor="end" fill="#5f6b6d">
+      <text x={(W + pad.l) / 2} y={H - 4} fontSize="12" textAnchor="middle" fill="#5f6b6d">
         2θ (°)
       </text>
     </svg>

@@ -114,8 +114,8 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
   const viewingCurrent = !run || run.id === scan.currentRunId;
   const locked = signed || !viewingCurrent;
   const accepted = phases.filter((p) => p.status === "accepted");
-  const leading = phases.find((p) => p.status !== "rejected" && p.rank === 1);
-  const cautionPhases = [...accepted, ...(leading ? [leading] : [])];
+  // Cautions follow what is accepted, the leading candidate and any confident candidate still undecided.
+  const cautionPhases = phases.filter((p) => p.status === "accepted" || (p.status === "candidate" && (p.rank === 1 || p.confident)));
   const settings = (scan.settingsJson ?? {}) as Record<string, unknown>;
   const notes = [...((settings.notes as string[] | undefined) ?? []), ...(profile?.warnings ?? [])];
   const pending = run && (run.status === "queued" || run.status === "running");
