@@ -9,7 +9,7 @@ import { call, makeWorld, type World } from "../helpers/app";
 import { solidPng, writeMbtiles } from "../helpers/mbtiles-fixture";
 
 let w: World;
-let file: Buffer;
+let file: Uint8Array;
 beforeAll(async () => {
   w = await makeWorld();
   // Tile 15/16592/11272 covers 48.85837 N 2.29448 E (DOMAIN.md §4.1; stored at TMS row 21495).
@@ -20,10 +20,10 @@ beforeAll(async () => {
       { z: 14, x: 8296, y: 5636, data: await solidPng([40, 40, 180]) },
     ],
   );
-  file = readFileSync(path);
+  file = new Uint8Array(readFileSync(path));
 });
 
-const upload = (cookie: string, body: BodyInit = file, headers: Record<string, string> = { "content-type": "application/vnd.sqlite3", "x-filename": "ortho.mbtiles" }) =>
+const upload = (cookie: string, body: BodyInit = file as BodyInit, headers: Record<string, string> = { "content-type": "application/vnd.sqlite3", "x-filename": "ortho.mbtiles" }) =>
   call(uploadRoute, { method: "POST", params: { projectId: w.projectId }, cookie, rawBody: body, headers });
 
 /** Calls the tile route and returns the raw bytes (the helper decodes bodies as text). */
@@ -80,11 +80,11 @@ describe("tile packages (MBTiles map layers)", () => {
     const junk = await upload(w.cookies.lead, new TextEncoder().encode("this is not a database"));
     expect(junk.status).toBe(422);
     expect(junk.json.error.fields.file[0]).toMatch(/not an SQLite database/);
-    const noFormat = readFileSync(await writeMbtiles({ name: "no format" }, [{ z: 0, x: 0, y: 0, data: await solidPng([0, 0, 0]) }]));
-    const r = await upload(w.cookies.lead, noFormat);
+    const noFormat = new Uint8Array(readFileSync(await writeMbtiles({ name: "no format" }, [{ z: 0, x: 0, y: 0, data: await solidPng([0, 0, 0]) }])));
+    const r = await upload(w.cookies.lead, noFormat as BodyInit);
     expect(r.status).toBe(422);
     expect(r.json.error.fields.file[0]).toMatch(/"format" is required/);
-    expect((await upload(w.cookies.lead, file, { "content-type": "multipart/form-data; boundary=x" })).status).toBe(415);
+    expect((await upload(w.cookies.lead, file as BodyInit, { "content-type": "multipart/form-data; boundary=x" })).status).toBe(415);
   });
 
   test("the lead deletes the package: tiles are gone and the stored file is removed", async () => {
