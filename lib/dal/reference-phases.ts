@@ -130,7 +130,9 @@ export async function getReferencePhaseOrThrow(actor: Actor, id: string, raw: un
       .map((l) => ({ ...l, twoTheta: twoThetaFromD(l.d, wavelength) }))
       .filter((l) => l.twoTheta <= q.twoThetaMax);
   }
-  const { cifText, patternJson: _stored, elements, ...rest } = p;
+  const { cifText, elements, ...withPattern } = p;
+  const rest: Omit<typeof withPattern, "patternJson"> & { patternJson?: unknown } = { ...withPattern };
+  delete rest.patternJson;
   return {
     phase: { ...rest, elements: elements.split(",").filter(Boolean), otherHazards: p.builtin ? otherHazardsOf(p.mineral) : [], importedByName: row.importedByName, cifLength: cifText.length },
     pattern: { wavelength, anode: q.wavelength ? null : (q.anode ?? "Cu"), twoThetaMax: q.twoThetaMax, lines, warnings, geometry: "Bragg–Brentano, no monochromator, random orientation (calculated, not measured)" },

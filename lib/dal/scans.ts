@@ -76,6 +76,13 @@ function medianStep(x: Float64Array): number {
   return d[d.length >> 1];
 }
 
+/** A copy of an object without one key (keeps internal columns such as file keys out of responses). */
+function omit<T extends object, K extends keyof T>(obj: T, key: K): Omit<T, K> {
+  const copy = { ...obj };
+  delete copy[key];
+  return copy;
+}
+
 const fmt = (x: number, digits = 4) => String(Math.round(x * 10 ** digits) / 10 ** digits);
 
 /**
@@ -545,17 +552,17 @@ export async function getScanOrThrow(actor: Actor, projectId: string, scanId: st
       progress: progress.get(selected.id) ?? null,
       profile: (full?.profile ?? null) as RunProfile | null,
       unexplained: full?.unexplained ?? [],
-      peaks: peakRows.map(({ runId: _r, ...p }) => p),
+      peaks: peakRows.map((p) => omit(p, "runId")),
       phases: await runPhases(selected.id),
     };
   }
   const [signer] = scan.signedOffBy ? await db.select({ name: user.name }).from(user).where(eq(user.id, scan.signedOffBy)) : [];
-  const { fileKey: _key, ...publicScan } = scan;
+  const publicScan = omit(scan, "fileKey");
   const isAdmin = actor.isAdmin;
   return {
     scan: { ...publicScan, signedOffByName: signer?.name ?? null },
     sample,
-    runs: runs.map(({ params: _p, ...r }) => ({ ...r, progress: progress.get(r.id) ?? null, current: r.id === scan.currentRunId })),
+    runs: runs.map((r) => ({ ...omit(r, "params"), progress: progress.get(r.id) ?? null, current: r.id === scan.currentRunId })),
     run: detail,
     canProcess: isAdmin || access.role === "lab_analyst",
     canReview: isAdmin || access.role === "lab_analyst",
