@@ -8,18 +8,9 @@ import { writeRegisterCsv } from "./csv-writer";
 import { writeRegisterGeoJson } from "./geojson-writer";
 import { writeRegisterKml } from "./kml-writer";
 import { writeRegisterPdf } from "./pdf-report";
+import { ALL_EXPORT_FORMATS, EXPORT_FORMATS, type ExportFormat } from "./respond-formats";
 import type { RegisterExport } from "./types";
 import { writeRegisterXlsx } from "./xlsx-writer";
-
-export const EXPORT_FORMATS = {
-  csv: { type: "text/csv; charset=utf-8", ext: "csv", label: "CSV" },
-  xlsx: { type: "application/vnd.openxmlformats-officedocument.spreadsheetml.sheet", ext: "xlsx", label: "Excel (XLSX)" },
-  geojson: { type: "application/geo+json", ext: "geojson", label: "GeoJSON" },
-  kml: { type: "application/vnd.google-earth.kml+xml", ext: "kml", label: "KML" },
-  pdf: { type: "application/pdf", ext: "pdf", label: "PDF report" },
-} as const;
-export type ExportFormat = keyof typeof EXPORT_FORMATS;
-export const ALL_EXPORT_FORMATS = Object.keys(EXPORT_FORMATS) as ExportFormat[];
 
 /** Validates a format name (422 naming the allowed ones). */
 export function parseExportFormat(value: string | null | undefined, allowed: readonly ExportFormat[] = ALL_EXPORT_FORMATS): ExportFormat {
@@ -79,3 +70,5 @@ export function exportResponse(exp: RegisterExport, format: ExportFormat, option
     },
   });
 }
+
+export { ALL_EXPORT_FORMATS, EXPORT_FORMATS, type ExportFormat };
