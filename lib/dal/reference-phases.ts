@@ -10,7 +10,7 @@ import { CifError, computePatternDetailed, parseCif, referenceIntensityRatio, ty
 import { findLibraryPhase } from "@/lib/science/minerals";
 import { twoThetaFromD } from "@/lib/science/units";
 import { hazardFromName, patternQuerySchema, referenceListQuerySchema } from "@/lib/validation/scan";
-import { citationOf, crystalSystemOf, lithodexComments } from "@/scripts/build-reference-library";
+import { citationOf, crystalSystemOf, lithodexComments } from "@/lib/science/minerals/cif-metadata";
 import type { Actor } from "./actor";
 import { audit } from "./audit";
 import { AppError, forbidden, notFound } from "./errors";
