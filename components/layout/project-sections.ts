@@ -11,6 +11,7 @@ export function projectSections(projectId: string, role: ProjectRole): { href: s
     { href: `${base}/submissions`, label: "Submissions" },
     { href: `${base}/scans`, label: "Scans" },
     { href: `${base}/map`, label: "Map" },
+    { href: `${base}/phase-map`, label: "Phase map" },
     { href: `${base}/members`, label: "Team" },
     { href: "/library", label: "Reference library" },
   ];

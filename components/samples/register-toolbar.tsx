@@ -1,6 +1,7 @@
 "use client";
 
 import Link from "next/link";
+import { ExportMenu } from "@/components/phase-map/export-menu";
 import { buttonClass } from "@/components/ui/button";
 import { SampleRegister, type SampleListItem } from "./sample-register";
 
@@ -15,18 +16,15 @@ function filterQuery(query: string): string {
 /** Export, map, import and label actions above the register; the selection drives label printing. */
 export function RegisterToolbar({ projectId, selected, query, canImport }: { projectId: string; selected: SampleListItem[]; query: string; canImport: boolean }) {
   const fq = filterQuery(query);
-  const exportHref = (format: "csv" | "geojson") => `/api/projects/${projectId}/samples/export?format=${format}${fq ? `&${fq}` : ""}`;
   const labelsHref = selected.length ? `/projects/${projectId}/labels?ids=${selected.map((s) => s.id).join(",")}` : `/projects/${projectId}/labels${fq ? `?${fq}` : ""}`;
   return (
     <div className="flex flex-wrap items-center gap-2" role="toolbar" aria-label="Register actions">
-      <a className={buttonClass("secondary")} href={exportHref("csv")} download>
-        Export CSV
-      </a>
-      <a className={buttonClass("secondary")} href={exportHref("geojson")} download>
-        Export GeoJSON
-      </a>
+      <ExportMenu base={`/api/projects/${projectId}/exports`} query={fq} />
       <Link className={buttonClass("secondary")} href={`/projects/${projectId}/map${fq ? `?${fq}` : ""}`}>
         Show on map
+      </Link>
+      <Link className={buttonClass("secondary")} href={`/projects/${projectId}/phase-map${fq ? `?${fq}` : ""}`}>
+        Phase map
       </Link>
       <Link className={buttonClass(selected.length ? "primary" : "secondary")} href={labelsHref}>
         {selected.length ? `Print labels (${selected.length} selected)` : "Print labels for this filter"}
