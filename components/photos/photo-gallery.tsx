@@ -35,6 +35,7 @@ function PhotoDetail({ projectId, photo, sample, canWrite, onDeleted }: { projec
 
   async function apply() {
     if (!sample) return;
+    if (photo.farFromStation && photo.distanceToStationM != null && !window.confirm(`This photo was taken ${formatDistance(photo.distanceToStationM)} from the station. Use its position for the sample anyway?`)) return;
     setBusy(true);
     setMessage(null);
     try {
@@ -97,7 +98,8 @@ function PhotoDetail({ projectId, photo, sample, canWrite, onDeleted }: { projec
           <div>
             <dt className="inline text-muted">Size: </dt>
             <dd className="inline">
-              {photo.width}×{photo.height} px, {(photo.sizeBytes / 1024 / 1024).toFixed(1)} MB {photo.mime.replace("image/", "").toUpperCase()}
+              {photo.width}×{photo.height} px, {photo.sizeBytes < 1024 * 1024 ? `${Math.max(1, Math.round(photo.sizeBytes / 1024))} KB` : `${(photo.sizeBytes / 1024 / 1024).toFixed(1)} MB`}{" "}
+              {photo.mime.replace("image/", "").toUpperCase()}
             </dd>
           </div>
         </dl>
@@ -166,7 +168,7 @@ export function PhotoGallery({
       {isLoading && (
         <div className="grid grid-cols-3 gap-2 sm:grid-cols-4 lg:grid-cols-6">
           {[0, 1, 2].map((i) => (
-            <Skeleton key={i} className="aspect-square" />
+            <Skeleton key={i} className="h-24" />
           ))}
         </div>
       )}

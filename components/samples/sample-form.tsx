@@ -8,6 +8,7 @@ import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { ConflictPanel, type ConflictField } from "@/components/stations/conflict-panel";
 import { LocationFields, type LocationValue } from "@/components/stations/location-fields";
 import { applyServerErrors, asNumber } from "@/components/stations/server-errors";
+import { useDeviceZone } from "@/components/stations/use-device-zone";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
@@ -166,8 +167,8 @@ export function SampleForm({
     const inner = zodResolver(schema as never) as unknown as Resolver<SampleFormValues>;
     return (values, ctx, opts) => inner(toBody(values, creating) as unknown as SampleFormValues, ctx, opts);
   }, [schema, creating]);
-  const browserZone = Intl.DateTimeFormat().resolvedOptions().timeZone;
-  const initial = toForm(sample, { collectedTz: browserZone, ...defaults });
+  const browserZone = useDeviceZone();
+  const initial = toForm(sample, defaults);
   const { register, handleSubmit, setValue, control, setError, getValues, reset, formState } = useForm<SampleFormValues>({ resolver, defaultValues: initial });
   const [general, setGeneral] = useState<string[]>([]);
   const [conflict, setConflict] = useState<SampleRecord | null>(null);
@@ -372,7 +373,7 @@ export function SampleForm({
           <Field label="Time zone of the site" htmlFor="sf-tz" error={err("collectedTz")} hint={w.collectedAt ? `Stored as ${w.collectedAt}` : undefined}>
             <select id="sf-tz" className={inputClass} value={w.collectedTz ?? ""} onChange={(e) => setCollected(collectedLocal, e.target.value || null)}>
               <option value="">—</option>
-              {allZones.map((z) => (
+              {(w.collectedTz && !allZones.includes(w.collectedTz) ? [w.collectedTz, ...allZones] : allZones).map((z) => (
                 <option key={z} value={z}>
                   {z}
                 </option>
@@ -429,6 +430,9 @@ export function SampleForm({
       {Object.keys(errors).length > 0 && !general.length && (
         <p role="alert" className="text-sm text-danger">
           Some fields need attention (marked above).
+          {Object.entries(errors)
+            .filter(([k]) => !KNOWN.includes(k))
+            .map(([k, e]) => ` ${k || "form"}: ${(e as { message?: string })?.message ?? ""}`)}
         </p>
       )}
       <div className="flex flex-wrap gap-2">

@@ -2,7 +2,7 @@
 
 import { zodResolver } from "@hookform/resolvers/zod";
 import { useRouter } from "next/navigation";
-import { useState } from "react";
+import { useMemo, useState } from "react";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
@@ -12,6 +12,7 @@ import { stationCreateSchema, stationPatchSchema } from "@/lib/validation/statio
 import { ConflictPanel, type ConflictField } from "./conflict-panel";
 import { LocationFields, type LocationValue } from "./location-fields";
 import { applyServerErrors } from "./server-errors";
+import { useDeviceZone } from "./use-device-zone";
 
 /** A station as the form reads and writes it. */
 export interface StationFormValues extends LocationValue {
@@ -48,6 +49,21 @@ const CONFLICT_FIELDS: ConflictField[] = [
 
 const emptyToNull = (v: string | null | undefined) => (v == null || v.trim() === "" ? null : v);
 
+/** Form values → API body: blank text → null, no code → let the server issue one, no undefined keys (the schema is strict). */
+function toBody(values: StationFormValues, editing: boolean): Record<string, unknown> {
+  const body: Record<string, unknown> = {
+    ...values,
+    name: emptyToNull(values.name),
+    lithology: emptyToNull(values.lithology),
+    description: emptyToNull(values.description),
+  };
+  if (!body.code) delete body.code;
+  if (!editing) delete body.version;
+  if (body.elevationM == null) body.elevationRef = null;
+  for (const [k, v] of Object.entries(body)) if (v === undefined) delete body[k];
+  return body;
+}
+
 function toForm(s?: StationRecord): StationFormValues {
   return {
     code: s?.code,
@@ -70,16 +86,20 @@ function toForm(s?: StationRecord): StationFormValues {
 export function StationForm({ projectId, station, nextCode }: { projectId: string; station?: StationRecord; nextCode?: string }) {
   const router = useRouter();
   const editing = !!station;
-  const zone = Intl.DateTimeFormat().resolvedOptions().timeZone;
+  const zone = useDeviceZone();
   const schema = editing ? stationPatchSchema : stationCreateSchema;
-  const form = useForm<StationFormValues>({
-    resolver: zodResolver(schema as never) as unknown as Resolver<StationFormValues>,
-    defaultValues: toForm(station),
-  });
+  const resolver = useMemo<Resolver<StationFormValues>>(() => {
+    const inner = zodResolver(schema as never) as unknown as Resolver<StationFormValues>;
+    return (values, ctx, opts) => inner(toBody(values, editing) as unknown as StationFormValues, ctx, opts);
+  }, [schema, editing]);
+  const form = useForm<StationFormValues>({ resolver, defaultValues: toForm(station) });
   const { register, handleSubmit, setValue, control, setError, getValues, reset, formState } = form;
   const [general, setGeneral] = useState<string[]>([]);
   const [conflict, setConflict] = useState<StationRecord | null>(null);
-  const [observedLocal, setObservedLocal] = useState(station?.observedAt ? (utcToZonedLocal(station.observedAt, zone) ?? "") : "");
+  // Wall time as typed; shown in the device zone (the stored value is UTC).
+  const [typedObserved, setTypedObserved] = useState<string | null>(null);
+  const observedAt = useWatch({ control, name: "observedAt" });
+  const observedLocal = typedObserved ?? (observedAt ? (utcToZonedLocal(observedAt, zone) ?? "") : "");
   const errors = formState.errors;
   const err = (k: keyof StationFormValues) => errors[k]?.message as string | undefined;
   const loc = useWatch({ control, name: ["lat", "lon", "elevationM", "elevationRef", "horizontalAccuracyM", "locationSource", "locationFixedAt"] });
@@ -95,13 +115,7 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
 
   async function save(values: StationFormValues, version?: number) {
     setGeneral([]);
-    const body: Record<string, unknown> = {
-      ...values,
-      name: emptyToNull(values.name),
-      lithology: emptyToNull(values.lithology),
-      description: emptyToNull(values.description),
-    };
-    if (!body.code) delete body.code;
+    const body = toBody(values, editing);
     try {
       const saved = editing
         ? await fetchJson<StationRecord>(`/api/projects/${projectId}/stations/${station!.id}`, { method: "PATCH", json: { ...body, version: version ?? values.version } })
@@ -118,7 +132,7 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
   }
 
   function onObserved(v: string) {
-    setObservedLocal(v);
+    setTypedObserved(v);
     setValue("observedAt", v ? zonedLocalToUtc(v, zone) : null, { shouldDirty: true });
   }
 
@@ -140,7 +154,7 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
           }}
           onTakeTheirs={() => {
             reset(toForm(conflict));
-            setObservedLocal(conflict.observedAt ? (utcToZonedLocal(conflict.observedAt, zone) ?? "") : "");
+            setTypedObserved(null);
             setConflict(null);
           }}
         />
@@ -186,6 +200,14 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
       <Field label="Description" htmlFor="st-desc" error={err("description")}>
         <textarea id="st-desc" rows={4} className={inputClass} {...register("description")} />
       </Field>
+      {Object.keys(errors).length > 0 && general.length === 0 && (
+        <p role="alert" className="text-sm text-danger">
+          Some fields need attention (marked above).
+          {Object.entries(errors)
+            .filter(([k]) => !(KNOWN as readonly string[]).includes(k))
+            .map(([k, e]) => ` ${k || "form"}: ${(e as { message?: string })?.message ?? ""}`)}
+        </p>
+      )}
       {general.length > 0 && (
         <div role="alert" className="rounded-md border border-danger/30 bg-red-50 p-3 text-sm text-danger">
           {general.map((g) => (

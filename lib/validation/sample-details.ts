@@ -76,7 +76,8 @@ export type SampleDetails = z.infer<typeof sampleDetailsSchema>;
 
 /** Empty details for a type (what the form starts from when the type changes). */
 export function emptySampleDetails(kind: SampleType): SampleDetails {
-  return kind === "float" ? { kind, inSitu: false } : kind === "core" ? ({ kind, holeId: "", fromM: 0, toM: 0 } as SampleDetails) : ({ kind } as SampleDetails);
+  // Core starts with blank depths (not 0) so the form asks for them.
+  return kind === "float" ? { kind, inSitu: false } : kind === "core" ? ({ kind, holeId: "", fromM: null, toM: null } as unknown as SampleDetails) : ({ kind } as SampleDetails);
 }
 
 export const CORE_PORTION_LABELS: Record<(typeof CORE_PORTIONS)[number], string> = { whole: "Whole core", half: "Half core (sawn)", quarter: "Quarter core" };
