@@ -48,27 +48,30 @@ const CONVENTIONS: { value: Convention; label: string }[] = [
 
 const KNOWN = ["convention", "feature", "strike", "dipDirection", "dip", "trend", "plunge", "rake", "planeId", "azimuthRef", "declinationDeg", "generation", "quality", "overturned", "note"];
 const fin = (v: unknown): v is number => typeof v === "number" && Number.isFinite(v);
+const azOk = (v: unknown): v is number => fin(v) && v >= 0 && v <= 360;
+const incOk = (v: unknown): v is number => fin(v) && v >= 0 && v <= 90;
 
 /** What the entry means, computed as you type (same formulas the server stores with). */
 function preview(v: Partial<Values>, planes: PlaneOption[]): string | null {
   const decl = v.azimuthRef === "magnetic" && fin(v.declinationDeg) ? v.declinationDeg : 0;
   const t = (a: number) => normalizeAzimuth(a + decl);
-  if (v.convention === "rhr" && fin(v.strike) && fin(v.dip)) {
+  if (v.azimuthRef === "magnetic" && v.declinationDeg != null && !(fin(v.declinationDeg) && Math.abs(v.declinationDeg) <= 90)) return null;
+  if (v.convention === "rhr" && azOk(v.strike) && incOk(v.dip)) {
     const dd = dipDirectionFromStrike(t(v.strike));
     const pole = poleToPlane({ dipDirection: dd, dip: v.dip });
     return `Dips ${Math.round(v.dip)}° toward ${formatAttitude(dd, 0).slice(0, 3)}° (true) · stored as ${formatAttitude(dd, v.dip)} dip dir./dip · pole ${formatAttitude(pole.trend, pole.plunge)}`;
   }
-  if (v.convention === "dip_dipdir" && fin(v.dipDirection) && fin(v.dip)) {
+  if (v.convention === "dip_dipdir" && azOk(v.dipDirection) && incOk(v.dip)) {
     const dd = t(v.dipDirection);
     const pole = poleToPlane({ dipDirection: dd, dip: v.dip });
     return `Strike ${formatAttitude(dd - 90, 0).slice(0, 3)} (RHR) · pole ${formatAttitude(pole.trend, pole.plunge)}`;
   }
   const plane = planes.find((p) => p.id === v.planeId);
-  if (v.convention === "rake" && fin(v.rake) && plane) {
+  if (v.convention === "rake" && fin(v.rake) && v.rake >= 0 && v.rake <= 180 && plane) {
     const l = lineFromRake(plane, v.rake);
     return `Trend/plunge ${formatAttitude(l.trend, l.plunge)} (plunge ${l.plunge.toFixed(1)}° toward ${l.trend.toFixed(1)}°)`;
   }
-  if (v.convention === "trend_plunge" && fin(v.trend) && fin(v.plunge)) {
+  if (v.convention === "trend_plunge" && azOk(v.trend) && incOk(v.plunge)) {
     const line = { trend: t(v.trend), plunge: v.plunge };
     if (!plane) return `${Math.round(v.plunge)}→${formatAttitude(line.trend, 0).slice(0, 3)}`;
     const off = angleLineToPlane(line, plane);
@@ -98,7 +101,8 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
     </Field>
   );
 
-  const onSubmit = handleSubmit(async (values) => {
+  const onSubmit = handleSubmit(
+    async (values) => {
     setGeneral([]);
     setSaved(null);
     const body: Record<string, unknown> = { ...values };
@@ -112,7 +116,9 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
     } catch (e) {
       setGeneral(applyServerErrors(e, setError, KNOWN));
     }
-  });
+    },
+    () => setSaved(null),
+  );
 
   const hint = preview(v, planes);
   return (
@@ -137,7 +143,7 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
           </select>
         </Field>
         <Field label="Feature" htmlFor="sf-feature" error={err("feature")}>
-          <select id="sf-feature" className={inputClass} {...register("feature")}>
+          <select id="sf-feature" name="feature" className={inputClass} value={v.feature ?? ""} onChange={(e) => setValue("feature", e.target.value, { shouldValidate: formState.isSubmitted })}>
             {features.map((f) => (
               <option key={f} value={f}>
                 {FEATURE_LABELS[f]}
