@@ -1,8 +1,8 @@
 "use client";
 
 import L from "leaflet";
-import { useEffect, useMemo, useState } from "react";
-import { Marker, useMap, useMapEvents } from "react-leaflet";
+import { useCallback, useEffect, useMemo, useSyncExternalStore } from "react";
+import { Marker, useMap } from "react-leaflet";
 import Supercluster from "supercluster";
 import {
   PHASE_CLUSTER_OPTIONS,
@@ -56,21 +56,30 @@ export function PhaseLayer({
   onView: (v: ViewState) => void;
 }) {
   const map = useMap();
-  const [view, setView] = useState<{ bbox: [number, number, number, number]; zoom: number }>(() => {
-    const b = map.getBounds();
-    return { bbox: [b.getWest(), b.getSouth(), b.getEast(), b.getNorth()], zoom: Math.round(map.getZoom()) };
-  });
-  useMapEvents({
-    moveend: () => {
+  // The map is an external store: re-render on every completed move or zoom (also one that happened
+  // before this layer subscribed, e.g. the first fit to the stations).
+  const snapshot = useSyncExternalStore(
+    useCallback(
+      (onChange: () => void) => {
+        map.on("moveend zoomend", onChange);
+        return () => {
+          map.off("moveend zoomend", onChange);
+        };
+      },
+      [map],
+    ),
+    () => {
       const b = map.getBounds();
-      setView({ bbox: [b.getWest(), b.getSouth(), b.getEast(), b.getNorth()], zoom: Math.round(map.getZoom()) });
-      onView({ bounds: b, zoom: map.getZoom() });
+      return `${Math.round(map.getZoom())}|${b.getWest().toFixed(6)}|${b.getSouth().toFixed(6)}|${b.getEast().toFixed(6)}|${b.getNorth().toFixed(6)}`;
     },
-  });
+  );
+  const view = useMemo(() => {
+    const [z, w, s, e, n] = snapshot.split("|").map(Number);
+    return { bbox: [w, s, e, n] as [number, number, number, number], zoom: z };
+  }, [snapshot]);
   useEffect(() => {
-    onView({ bounds: map.getBounds(), zoom: map.getZoom() });
-    // Once, when the layer mounts: later changes arrive through moveend.
-  }, [map, onView]);
+    onView({ bounds: L.latLngBounds([view.bbox[1], view.bbox[0]], [view.bbox[3], view.bbox[2]]), zoom: view.zoom });
+  }, [view, onView]);
 
   const index = useMemo(() => {
     const idx = new Supercluster<StationPointProps, ClusterSummary>({ radius: 44, maxZoom: 16, ...PHASE_CLUSTER_OPTIONS });
@@ -112,7 +121,7 @@ export function PhaseLayer({
           <Marker
             key={st.key}
             position={[lat, lon]}
-            icon={iconFor(d.svg, d.size, `data-station="${attr(st.code)}" data-symbols="${attr(segs.map((x) => `${x.symbol}:${x.confirmed ? "c" : "k"}`).join(","))}"${selected ? ' class="lx-selected"' : ""}`)}
+            icon={iconFor(d.svg, d.size, `data-station="${attr(st.code)}" data-symbols="${attr(segs.map((x) => `${x.symbol}:${x.confirmed ? "c" : "k"}`).join(","))}"${selected ? ' class="lx-selected" style="border-radius:50%;box-shadow:0 0 0 3px #b8561b"' : ""}`)}
             title={title}
             alt={title}
             zIndexOffset={selected ? 1000 : 0}
