@@ -66,7 +66,8 @@ export const structureCreateSchema = z
     { error: "convention must be rhr (strike/dip), dip_dipdir (dip direction/dip), trend_plunge or rake." },
   )
   .superRefine((v, ctx) => {
-    if (v.azimuthRef === "magnetic" && v.declinationDeg == null) {
+    // A rake is measured inside its plane: no compass azimuth, so no declination needed.
+    if (v.convention !== "rake" && v.azimuthRef === "magnetic" && v.declinationDeg == null) {
       ctx.addIssue({
         code: "custom",
         path: ["declinationDeg"],
