@@ -9,8 +9,13 @@ import { GET as listMembers, POST as inviteMember } from "@/app/api/projects/[pr
 import { GET as exportSamples } from "@/app/api/projects/[projectId]/samples/export/route";
 import { POST as importSamples } from "@/app/api/projects/[projectId]/samples/import/route";
 import { GET as listTilePackages } from "@/app/api/projects/[projectId]/tile-packages/route";
+import { GET as listStations, POST as createStation } from "@/app/api/projects/[projectId]/stations/route";
+import { PATCH as patchStation } from "@/app/api/projects/[projectId]/stations/[stationId]/route";
+import { POST as addStructure } from "@/app/api/projects/[projectId]/stations/[stationId]/structures/route";
+import { GET as listScans } from "@/app/api/projects/[projectId]/scans/route";
+import { GET as phaseMap } from "@/app/api/projects/[projectId]/phase-map/route";
 import { getDb } from "@/db";
-import { samples, type ProjectRole } from "@/db/schema";
+import { samples, stations, type ProjectRole } from "@/db/schema";
 import { PERMISSIONS, type Permission } from "@/lib/dal/permissions";
 import { call, makeWorld, type World } from "../helpers/app";
 
@@ -30,9 +35,23 @@ interface RouteCase {
 }
 interface Fixture {
   sampleId: string;
+  stationId: string;
 }
 
 const ROUTES: RouteCase[] = [
+  { name: "GET stations", handler: listStations, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
+  { name: "POST stations", handler: createStation, method: "POST", permission: "station.write", params: (w) => ({ projectId: w.projectId }), body: () => ({ name: "Matrix outcrop", lat: 37.71, lon: -6.61 }) },
+  { name: "PATCH station (move)", handler: patchStation, method: "PATCH", permission: "station.write", params: (w, f) => ({ projectId: w.projectId, stationId: f.stationId }), body: () => ({ version: 1, lat: 37.72, lon: -6.62 }) },
+  {
+    name: "POST structure",
+    handler: addStructure,
+    method: "POST",
+    permission: "station.write",
+    params: (w, f) => ({ projectId: w.projectId, stationId: f.stationId }),
+    body: () => ({ convention: "rhr", feature: "bedding", strike: 30, dip: 40 }),
+  },
+  { name: "GET scans", handler: listScans, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
+  { name: "GET phase map", handler: phaseMap, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "GET project", handler: getProject, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "GET samples", handler: listSamples, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "POST samples", handler: createSample, method: "POST", permission: "sample.write", params: (w) => ({ projectId: w.projectId }), body: () => ({ sampleType: "soil" }) },
@@ -67,7 +86,8 @@ beforeAll(async () => {
 /** A fresh sample per call so PATCH with version 1 is always current. */
 async function fixture(): Promise<Fixture> {
   const [s] = await getDb().insert(samples).values({ projectId: w.projectId, code: `RM-${crypto.randomUUID().slice(0, 8).toUpperCase()}`, sampleType: "chip" }).returning();
-  return { sampleId: s.id };
+  const [st] = await getDb().insert(stations).values({ projectId: w.projectId, code: `RM-ST-${crypto.randomUUID().slice(0, 8).toUpperCase()}`, lat: 37.7, lon: -6.6 }).returning();
+  return { sampleId: s.id, stationId: st.id };
 }
 
 function expected(role: (typeof ROLES)[number], permission: Permission): number | "2xx" {
