@@ -67,6 +67,21 @@ const PHASE_COLUMNS = [
   { header: "Hazard", key: "hazard", width: 16 },
 ];
 
+/** Bytes a worksheet may have waiting for the zip compressor before the writer pauses. */
+const SHEET_BACKLOG = 1 << 20;
+
+/**
+ * exceljs 4.4's worksheet stream (StreamBuf) ignores backpressure: rows written faster than the zip
+ * deflates them pile up, uncompressed, in the PassThrough it is piped into. Wait until that backlog is
+ * small again. Reads stream internals (`writableLength`, or `_writableState.length` in the
+ * readable-stream copy archiver uses); re-check when upgrading exceljs.
+ */
+async function sheetBackpressure(ws: unknown): Promise<void> {
+  const pipes = (ws as { stream?: { pipes?: { writableLength?: number; _writableState?: { length: number } }[] } }).stream?.pipes ?? [];
+  const backlog = () => pipes.reduce((n, p) => n + (p.writableLength ?? p._writableState?.length ?? 0), 0);
+  while (backlog() > SHEET_BACKLOG) await new Promise((r) => setTimeout(r, 1));
+}
+
 /** Text a spreadsheet would run as a formula gets a leading "'" (OWASP CSV injection, also applies to XLSX strings). */
 const safeText = (v: string) => (/^[=+\-@\t\r]/.test(v) ? `'${v}` : v);
 
@@ -100,6 +115,7 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
   }
   about.commit();
 
+  let written = 0;
   const reg = wb.addWorksheet("Register", { views: [{ state: "frozen", ySplit: 1 }] });
   reg.columns = XLSX_REGISTER_COLUMNS.map((c) => ({ header: c.header, key: c.key, width: c.width, ...(c.numFmt ? { style: { numFmt: c.numFmt } } : {}) }));
   reg.getRow(1).font = { bold: true };
@@ -112,7 +128,9 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
         values[c.key] = typeof v === "string" ? safeText(v) : v;
       }
       reg.addRow(values).commit();
+      if (++written % 200 === 0) await sheetBackpressure(reg);
     }
+    await sheetBackpressure(reg);
     await drained(out);
   }
   reg.commit();
@@ -135,8 +153,10 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
           scan: p.scanId,
           hazard: p.hazard,
         }).commit();
+        if (++written % 200 === 0) await sheetBackpressure(ph);
       }
     }
+    await sheetBackpressure(ph);
     await drained(out);
   }
   ph.commit();
