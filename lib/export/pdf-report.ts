@@ -184,7 +184,7 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
     );
   if (report.candidateSummary.length) {
     doc.moveDown(0.4);
-    para(c, `Unconfirmed candidates (not identifications): ${report.candidateSummary.map((x) => `${x.mineral} (${x.samples})`).join(", ")}.`);
+    para(c, `Unconfirmed candidates (not identifications): ${report.candidateSummary.map((x) => `${x.mineral}${isAsbestiform(x) ? " (!)" : ""} (${x.samples})`).join(", ")}.`);
   }
 
   // Register table, streamed.
@@ -224,10 +224,10 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
   para(c, IDENTIFICATION_CAVEAT);
   doc.moveDown(0.3);
   para(c, CONFIRMED_VS_CANDIDATE);
-  const asbestos = report.phaseSummary.filter(isAsbestiform).map((p) => p.mineral);
+  const asbestos = [...new Set([...report.phaseSummary, ...report.candidateSummary].filter(isAsbestiform).map((p) => p.mineral))];
   if (asbestos.length) {
     doc.moveDown(0.3);
-    doc.font(c.bold).fontSize(9).fillColor("#A4161A").text(c.t(`Asbestiform minerals in this selection: ${asbestos.join(", ")} (marked "(!)").`), MARGIN, doc.y);
+    doc.font(c.bold).fontSize(9).fillColor("#A4161A").text(c.t(`Possible asbestiform minerals in this selection (confirmed or candidate): ${asbestos.join(", ")}.`), MARGIN, doc.y);
     para(c, ASBESTOS_CAVEAT);
   }
   if (report.phaseSummary.some((p) => p.hazard === "crystalline_silica" || ["quartz", "cristobalite"].includes(p.mineral))) {

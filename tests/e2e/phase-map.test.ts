@@ -78,6 +78,20 @@ describe("phase map", () => {
     // The export buttons carry the filter.
     expect(await page.getAttribute("[data-testid=export-xlsx]", "href")).toBe(`/api/projects/${projectId}/exports/xlsx?mineral=pyrite`);
 
+    // Share the filtered selection: a visitor without an account sees exactly those samples; revoked → 410.
+    await page.locator("summary", { hasText: "Share this selection" }).click();
+    await page.fill('input[name="label"]', "E2E consultant review");
+    await page.getByRole("button", { name: "Create link" }).click();
+    const shareUrl = await expect.poll(() => page.inputValue("[data-testid=share-url]").catch(() => ""), { timeout: 15_000 }).toMatch(/\/share\//).then(() => page.inputValue("[data-testid=share-url]"));
+    const visitor = await browser.newContext();
+    const vp = await visitor.newPage();
+    expect((await vp.goto(shareUrl))?.status()).toBe(200);
+    expect(await vp.textContent("[data-testid=share-filter]")).toBe("mineral = pyrite (confirmed)");
+    expect(await vp.locator("[data-testid=share-row]").count()).toBe(Number((await page.textContent("[data-testid=phase-map-summary]"))!.match(/(\d+) samples/)![1]));
+    await page.getByRole("button", { name: "Revoke" }).first().click();
+    await expect.poll(async () => (await vp.goto(shareUrl))?.status(), { timeout: 15_000 }).toBe(410);
+    await visitor.close();
+
     mkdirSync("test-results", { recursive: true });
     const shot = await page.screenshot({ fullPage: true });
     writeFileSync("test-results/phase-map.png", shot);

@@ -61,7 +61,7 @@ export default async function SharedRegisterPage({ params, searchParams }: { par
       </p>
       {asbestos && (
         <p role="alert" className="rounded-md border border-danger/30 bg-red-50 px-3 py-2 text-sm text-danger">
-          <strong>Possible asbestiform mineral on this page.</strong> {ASBESTOS_CAVEAT}
+          <strong>Caution (a confirmed or candidate phase on this page):</strong> {ASBESTOS_CAVEAT}
         </p>
       )}
       <div className="overflow-x-auto rounded-lg border border-line bg-white">
@@ -82,11 +82,11 @@ export default async function SharedRegisterPage({ params, searchParams }: { par
           <tbody>
             {data.rows.map((r) => (
               <tr key={r.code} className="border-t border-line align-top" data-testid="share-row">
-                <td className="px-3 py-2 font-medium">{r.code}</td>
-                <td className="px-3 py-2">{r.stationCode ?? "—"}</td>
+                <td className="px-3 py-2 font-medium whitespace-nowrap">{r.code}</td>
+                <td className="px-3 py-2 whitespace-nowrap">{r.stationCode ?? "—"}</td>
                 <td className="px-3 py-2">{r.sampleType.replace(/_/g, " ")}</td>
                 <td className="px-3 py-2">{r.lithology ?? "—"}</td>
-                <td className="px-3 py-2">{formatDate(r.collectedAt)}</td>
+                <td className="px-3 py-2 whitespace-nowrap">{formatDate(r.collectedAt)}</td>
                 <td className="px-3 py-2 whitespace-nowrap">{formatLatLon(r.lat, r.lon)}</td>
                 <td className="px-3 py-2">
                   <span className="flex flex-wrap gap-1">
