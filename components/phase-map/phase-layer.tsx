@@ -1,7 +1,7 @@
 "use client";
 
 import L from "leaflet";
-import { useCallback, useEffect, useMemo, useSyncExternalStore } from "react";
+import { useCallback, useEffect, useMemo, useRef, useSyncExternalStore } from "react";
 import { Marker, useMap } from "react-leaflet";
 import Supercluster from "supercluster";
 import {
@@ -131,4 +131,31 @@ export function PhaseLayer({
       })}
     </>
   );
+}
+
+/**
+ * Fits the map to the stations once, when the first non-empty list arrives. Waits a frame and re-reads
+ * the container size first: on a client-side navigation the map can mount before its box has a size,
+ * and a fit computed for a 0 × 0 map ends at world zoom.
+ */
+export function FitToStations({ points }: { points: readonly [number, number][] }) {
+  const map = useMap();
+  const done = useRef(false);
+  useEffect(() => {
+    if (done.current || points.length === 0) return;
+    let frame = 0;
+    const fit = () => {
+      map.invalidateSize();
+      if (map.getSize().x === 0 || map.getSize().y === 0) {
+        frame = requestAnimationFrame(fit);
+        return;
+      }
+      done.current = true;
+      if (points.length === 1) map.setView(points[0], 14);
+      else map.fitBounds(L.latLngBounds(points as [number, number][]), { padding: [30, 30], maxZoom: 15 });
+    };
+    frame = requestAnimationFrame(fit);
+    return () => cancelAnimationFrame(frame);
+  }, [points, map]);
+  return null;
 }

@@ -4,14 +4,13 @@ import "leaflet/dist/leaflet.css";
 import type L from "leaflet";
 import { useCallback, useMemo, useRef, useState } from "react";
 import { MapContainer, ScaleControl } from "react-leaflet";
-import { FitOnce } from "@/components/map/map-interactions";
 import { OfflineBasemapLayer } from "@/components/map/offline-basemap-layer";
 import { OFFLINE_TILE_ATTRIBUTION } from "@/lib/map/offline-tiles";
 import type { PhaseMapStation } from "@/lib/phase-map";
 import { ExportMenu } from "./export-menu";
 import { PhaseFilterPanel } from "./filter-panel";
 import { PhaseLegend } from "./legend";
-import { PhaseLayer, type ViewState } from "./phase-layer";
+import { FitToStations, PhaseLayer, type ViewState } from "./phase-layer";
 import { SharePanel } from "./share-panel";
 import { StationList } from "./station-list";
 import { StationPanel } from "./station-panel";
@@ -22,10 +21,6 @@ export interface PhaseMapViewProps {
   canShare: boolean;
 }
 
-const WORLD: L.LatLngBoundsExpression = [
-  [-60, -170],
-  [75, 170],
-];
 const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => ({ "&": "&amp;", "<": "&lt;", ">": "&gt;", '"': "&quot;", "'": "&#39;" })[c]!);
 
 /** Where each mineral was found: phase symbols on the offline basemap, filters, legend, a list that follows the view, station details. */
@@ -69,7 +64,7 @@ export default function PhaseMapView({ projectId, canShare }: PhaseMapViewProps)
             <MapContainer id="phase-map" ref={mapRef} center={[20, 0]} zoom={2} minZoom={1} maxZoom={18} className="h-full w-full" aria-label="Phase map">
               <OfflineBasemapLayer attribution={escapeHtml(OFFLINE_TILE_ATTRIBUTION)} maxZoom={18} />
               <ScaleControl position="bottomleft" imperial={false} />
-              <FitOnce points={points} fallback={WORLD} />
+              <FitToStations points={points} />
               <PhaseLayer stations={stations} candidates={candidates} mineral={mineral} selectedKey={selected} onSelect={(k) => setSelected(k)} onView={onView} />
             </MapContainer>
           </div>

@@ -41,14 +41,14 @@ export function SharePanel({ projectId, params }: { projectId: string; params: R
     <details className="rounded-lg border border-line bg-white p-3">
       <summary className="cursor-pointer text-sm font-semibold">Share this selection (read-only link)</summary>
       <form
-        className="mt-2 grid gap-2 sm:grid-cols-[1fr_auto_auto]"
+        className="mt-2 grid grid-cols-[1fr_auto] gap-2"
         onSubmit={(e) => {
           e.preventDefault();
           const f = new FormData(e.currentTarget);
           create.mutate({ label: String(f.get("label") ?? ""), expiresInDays: Number(f.get("days")) });
         }}
       >
-        <label className="text-xs text-muted">
+        <label className="col-span-2 text-xs text-muted">
           Label (who it is for)
           <input name="label" maxLength={120} className={cn(inputClass, "mt-0.5")} placeholder="e.g. Review by consultant" />
         </label>

@@ -35,6 +35,11 @@ describe("phase map", () => {
     await page.waitForURL(`**/projects/${projectId}/phase-map`);
     await page.waitForFunction(() => document.querySelectorAll("[data-testid=station-item]").length > 0, null, { timeout: 30_000 });
     const all = await page.locator("[data-testid=station-item]").count();
+    // The map opens fitted to the stations (the demo district is ~15 km across), not the whole world.
+    await expect.poll(async () => {
+      const m = (await page.textContent(".leaflet-control-scale"))?.match(/(\d+)\s*(m|km)/);
+      return m ? Number(m[1]) * (m[2] === "km" ? 1000 : 1) : Infinity;
+    }, { timeout: 10_000 }).toBeLessThanOrEqual(5000);
 
     // Choose pyrite in the filter (the option lists the IMA symbol first).
     await page.selectOption("[data-testid=filter-mineral]", "pyrite");
