@@ -23,8 +23,10 @@ describe("symbol SVG", () => {
     for (const shape of SHAPES) parse(phaseGlyphSvg({ symbol: "A&B", colour: TOL_MUTED.teal, shape, confirmed: false }).svg);
     const doc = parse(stationSymbolSvg([seg("quartz", "silica", true, 60), seg("pyrite", "sulfide", true, 30), seg("kaolinite", "clay", false)]).svg);
     expect(errors).toEqual([]);
-    // Background disc + 3 segments + the centre glyph (one path when confirmed).
-    expect(doc.getElementsByTagName("path").length).toBe(4);
+    // Two confirmed segments (one path each), a candidate segment (dark edge + dashed colour: two paths)
+    // and the centre glyph (one path when confirmed); the background disc is a <circle>.
+    expect(doc.getElementsByTagName("path").length).toBe(5);
+    expect(doc.getElementsByTagName("circle").length).toBe(1);
     expect(doc.getElementsByTagName("text")[0].textContent).toBe("Qz");
   });
 
