@@ -14,6 +14,8 @@ import { PATCH as patchStation } from "@/app/api/projects/[projectId]/stations/[
 import { POST as addStructure } from "@/app/api/projects/[projectId]/stations/[stationId]/structures/route";
 import { GET as listScans } from "@/app/api/projects/[projectId]/scans/route";
 import { GET as phaseMap } from "@/app/api/projects/[projectId]/phase-map/route";
+import { GET as exportFormat } from "@/app/api/projects/[projectId]/exports/[format]/route";
+import { GET as listShareLinks, POST as createShareLink } from "@/app/api/projects/[projectId]/share-links/route";
 import { getDb } from "@/db";
 import { samples, stations, type ProjectRole } from "@/db/schema";
 import { PERMISSIONS, type Permission } from "@/lib/dal/permissions";
@@ -39,6 +41,11 @@ interface Fixture {
 }
 
 const ROUTES: RouteCase[] = [
+  ...(["csv", "xlsx", "geojson", "kml"] as const).map(
+    (format): RouteCase => ({ name: `GET export ${format}`, handler: exportFormat, method: "GET", permission: "export.read", params: (w) => ({ projectId: w.projectId, format }) }),
+  ),
+  { name: "GET share links", handler: listShareLinks, method: "GET", permission: "share.manage", params: (w) => ({ projectId: w.projectId }) },
+  { name: "POST share link", handler: createShareLink, method: "POST", permission: "share.manage", params: (w) => ({ projectId: w.projectId }), body: () => ({ expiresInDays: 7, filter: { lithology: "gossan" } }) },
   { name: "GET stations", handler: listStations, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "POST stations", handler: createStation, method: "POST", permission: "station.write", params: (w) => ({ projectId: w.projectId }), body: () => ({ name: "Matrix outcrop", lat: 37.71, lon: -6.61 }) },
   { name: "PATCH station (move)", handler: patchStation, method: "PATCH", permission: "station.write", params: (w, f) => ({ projectId: w.projectId, stationId: f.stationId }), body: () => ({ version: 1, lat: 37.72, lon: -6.62 }) },
