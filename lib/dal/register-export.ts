@@ -8,6 +8,7 @@ import { registerFilterSchema, type RegisterFilter } from "@/lib/phase-map";
 import { authorize, type Actor } from "./actor";
 import { CONFIRMED_RESULT, countsAsResult, phasesOfSamples, registerWhere } from "./phase-facts";
 import { phaseMapFor } from "./phase-map";
+import { SAMPLE_SORT_COLUMNS } from "./samples";
 import { validateInput } from "./validate";
 
 /** Rows read per page while streaming an export (memory stays bounded whatever the register size). */
@@ -39,15 +40,6 @@ const columns = {
   weightKg: samples.weightKg,
 };
 
-const SORT = {
-  code: samples.code,
-  collectedAt: samples.collectedAt,
-  sampleType: samples.sampleType,
-  lithology: samples.lithology,
-  status: samples.status,
-  station: stations.code,
-  updatedAt: samples.updatedAt,
-} as const;
 
 /**
  * Prepares an export of the register for a member: the caller needs `export.read` in the project (404 for
@@ -72,7 +64,7 @@ export async function registerExportFor(projectId: string, filter: RegisterFilte
     .from(projects)
     .where(eq(projects.id, projectId));
   const where = registerWhere(projectId, filter);
-  const col = SORT[filter.sort];
+  const col = SAMPLE_SORT_COLUMNS[filter.sort];
   const order = filter.dir === "desc" ? desc(col) : asc(col);
 
   async function* pages(): AsyncGenerator<ExportRow[]> {

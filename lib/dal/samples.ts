@@ -47,7 +47,7 @@ export function sampleFilter(projectId: string, q: Partial<SampleListQuery>): SQ
   return and(...parts)!;
 }
 
-const SORT_COLUMNS = {
+export const SAMPLE_SORT_COLUMNS = {
   code: samples.code,
   collectedAt: samples.collectedAt,
   sampleType: samples.sampleType,
@@ -80,7 +80,7 @@ export async function listSamples(actor: Actor, projectId: string, q: SampleList
   await authorize(actor, projectId, "project.read");
   const db = getDb();
   const where = sampleFilter(projectId, q);
-  const col = SORT_COLUMNS[q.sort];
+  const col = SAMPLE_SORT_COLUMNS[q.sort];
   const order = q.dir === "desc" ? desc(col) : asc(col);
   const [items, [{ total }]] = await Promise.all([
     db
