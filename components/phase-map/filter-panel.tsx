@@ -40,7 +40,7 @@ export function PhaseFilterPanel({ params, minerals }: { params: Record<string, 
     >
       <label className="col-span-2 text-xs text-muted">
         Mineral
-        <select name="mineral" defaultValue={params.mineral ?? ""} className={cn(inputClass, "mt-0.5")} data-testid="filter-mineral" onChange={(e) => apply({ mineral: e.target.value })}>
+        <select name="mineral" value={params.mineral ?? ""} className={cn(inputClass, "mt-0.5")} data-testid="filter-mineral" onChange={(e) => apply({ mineral: e.target.value })}>
           <option value="">Any mineral</option>
           {minerals.map((m) => (
             <option key={m.mineral} value={m.mineral}>
@@ -51,7 +51,7 @@ export function PhaseFilterPanel({ params, minerals }: { params: Record<string, 
       </label>
       <label className="text-xs text-muted">
         Group
-        <select name="group" defaultValue={params.group ?? ""} className={cn(inputClass, "mt-0.5")} onChange={(e) => apply({ group: e.target.value })}>
+        <select name="group" value={params.group ?? ""} className={cn(inputClass, "mt-0.5")} onChange={(e) => apply({ group: e.target.value })}>
           <option value="">Any group</option>
           {groups.map((g) => (
             <option key={g} value={g}>
@@ -77,7 +77,7 @@ export function PhaseFilterPanel({ params, minerals }: { params: Record<string, 
       </fieldset>
       <label className="text-xs text-muted">
         Leading candidates
-        <select name="leading" defaultValue={params.leading ?? "3"} className={cn(inputClass, "mt-0.5")} disabled={phase === "confirmed"} onChange={(e) => apply({ leading: e.target.value === "3" ? null : e.target.value })}>
+        <select name="leading" value={params.leading ?? "3"} className={cn(inputClass, "mt-0.5")} disabled={phase === "confirmed"} onChange={(e) => apply({ leading: e.target.value === "3" ? null : e.target.value })}>
           {[1, 2, 3, 5, 10].map((n) => (
             <option key={n} value={n}>
               Top {n}
