@@ -52,19 +52,10 @@ export interface PeakRow {
   crystalliteNm: number | null;
 }
 
-export interface RunProfile {
-  wavelength: number;
-  twoTheta: number[];
-  raw: number[];
-  background: number[];
-  processed: number[];
-  fitted: number[];
-  warnings: string[];
-  noConfidentMatch: boolean;
-  quantification: string;
-  mixture: { referencePhaseId: string; mineral: string; wtPercent: number | null; rir: number | null; scale: number; zeroShift: number }[];
-  broadFeatures: { twoTheta: number; d: number; fwhm: number }[];
-}
+/** The stored run profile, as the review page receives it (type only; no server code reaches the client). */
+import type { RunProfile } from "@/lib/jobs/process-run";
+
+export type { RunProfile };
 
 export interface ScanDetail {
   scan: {

@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { DetailRow as Row } from "@/components/ui/detail-row";
 import Link from "next/link";
 import { notFound } from "next/navigation";
 import { CustodyHistory } from "@/components/custody/custody-history";
@@ -16,14 +17,6 @@ import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS, formatCollected, formatLatLon
 
 export const metadata: Metadata = { title: "Sample" };
 
-function Row({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <div className="grid grid-cols-3 gap-2 border-t border-line py-2 first:border-0">
-      <dt className="text-sm text-muted">{label}</dt>
-      <dd className="col-span-2 text-sm">{children ?? "—"}</dd>
-    </div>
-  );
-}
 
 export default async function SamplePage({ params }: { params: Promise<{ projectId: string; sampleId: string }> }) {
   const { projectId, sampleId } = await params;

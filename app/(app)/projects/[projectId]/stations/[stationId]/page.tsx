@@ -1,4 +1,5 @@
 import type { Metadata } from "next";
+import { DetailRow as Row } from "@/components/ui/detail-row";
 import Link from "next/link";
 import { PhotoGallery } from "@/components/photos/photo-gallery";
 import { ELEVATION_REF_LABELS, LOCATION_SOURCE_LABELS } from "@/components/stations/location-labels";
@@ -15,14 +16,6 @@ import { formatDmsPair, formatUtm, toUtm } from "@/lib/geo";
 
 export const metadata: Metadata = { title: "Station" };
 
-function Row({ label, children }: { label: string; children: React.ReactNode }) {
-  return (
-    <div className="grid grid-cols-3 gap-2 border-t border-line py-2 first:border-0">
-      <dt className="text-sm text-muted">{label}</dt>
-      <dd className="col-span-2 text-sm">{children ?? "—"}</dd>
-    </div>
-  );
-}
 
 function utm(lat: number, lon: number): string {
   try {
