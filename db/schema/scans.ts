@@ -4,6 +4,7 @@ import { user } from "./auth";
 import { createdAt, id } from "./columns";
 import { samples } from "./field";
 import { projects } from "./projects";
+import type { PhaseFitData } from "../../lib/science/types";
 import { SCAN_STATUSES, ANODES, REFERENCE_HAZARDS, PHASE_STATUSES } from "../../lib/vocabulary";
 export { SCAN_STATUSES, ANODES, REFERENCE_HAZARDS, PHASE_STATUSES } from "../../lib/vocabulary";
 
@@ -116,6 +117,11 @@ export const referencePhases = sqliteTable(
     /** Computed pattern for Cu Kα1: [{h,k,l,d,intensity,multiplicity}]. */
     patternJson: text("pattern_json", { mode: "json" }).$type<unknown[]>().notNull(),
     rir: real("rir"),
+    /**
+     * Whole-pattern fit data (lib/science/types.ts PhaseFitData): cellVolume, cellMass, absoluteScale and the
+     * optional texture, broadening, variable001, d001Range. Null for rows stored before it existed.
+     */
+    fitJson: text("fit_json", { mode: "json" }).$type<PhaseFitData>(),
     builtin: integer("builtin", { mode: "boolean" }).notNull().default(false),
     importedBy: text("imported_by").references(() => user.id, { onDelete: "set null" }),
     createdAt: createdAt(),

@@ -1,0 +1,1 @@
+ALTER TABLE `reference_phases` ADD `fit_json` text;
