@@ -59,3 +59,62 @@ describe("reading an MBTiles package written in the test with @libsql/client", (
     await expect(inspectMbtilesFile(empty)).rejects.toThrow(/contains no tiles/);
   });
 });
+
+describe("hostile packages are refused before any query can run long (issue: a recursive view froze the server)", () => {
+  async function withSchema(statements: string[]): Promise<string> {
+    const png = await solidPng([1, 2, 3]);
+    const file = await writeMbtiles({ name: "hostile", format: "png" }, [{ z: 0, x: 0, y: 0, data: png }]);
+    const { createClient } = await import("@libsql/client");
+    const c = createClient({ url: `file:${file}` });
+    for (const s of statements) await c.execute(s);
+    c.close();
+    return file;
+  }
+
+  test("tiles as a recursive view is refused in well under a second", async () => {
+    const file = await withSchema([
+      "DROP TABLE tiles",
+      "CREATE VIEW tiles AS WITH RECURSIVE n(i) AS (SELECT 1 UNION ALL SELECT i + 1 FROM n) SELECT 0 AS zoom_level, 0 AS tile_column, 0 AS tile_row, zeroblob(1) AS tile_data FROM n",
+    ]);
+    const started = Date.now();
+    const err = await inspectMbtilesFile(file).catch((e: unknown) => e);
+    expect(err).toBeInstanceOf(MbtilesError);
+    expect((err as MbtilesError).issues.join(" ")).toMatch(/view \("tiles"\).*refused/);
+    expect(Date.now() - started).toBeLessThan(5000); // generous bound for a shared machine; the count would take hours
+  });
+
+  test("the deduplicated tiles view over map and images (a layout MBTiles 1.3 allows) is accepted", async () => {
+    const png = await solidPng([9, 9, 9]);
+    const file = await withSchema([
+      "DROP TABLE tiles",
+      "CREATE TABLE map (zoom_level INTEGER, tile_column INTEGER, tile_row INTEGER, tile_id TEXT)",
+      "CREATE TABLE images (tile_data blob, tile_id text)",
+      "CREATE VIEW tiles AS SELECT map.zoom_level AS zoom_level, map.tile_column AS tile_column, map.tile_row AS tile_row, images.tile_data AS tile_data FROM map JOIN images ON images.tile_id = map.tile_id",
+    ]);
+    const { createClient } = await import("@libsql/client");
+    const c = createClient({ url: `file:${file}` });
+    await c.execute({ sql: "INSERT INTO images VALUES (?, 'a')", args: [png] });
+    await c.execute("INSERT INTO map VALUES (0, 0, 0, 'a')");
+    c.close();
+    const info = await inspectMbtilesFile(file);
+    expect(info.tileCount).toBe(1);
+  });
+
+  test("a trigger, a virtual table and a generated column are each refused with the object named", async () => {
+    const trig = await withSchema(["CREATE TRIGGER t AFTER INSERT ON metadata BEGIN SELECT 1; END"]);
+    await expect(inspectMbtilesFile(trig)).rejects.toThrow(/trigger \("t"\)/);
+    const gen = await withSchema(["DROP TABLE tiles", "CREATE TABLE tiles (zoom_level integer, tile_column integer, tile_row integer, tile_data blob GENERATED ALWAYS AS (zeroblob(100000000)) VIRTUAL)"]);
+    await expect(inspectMbtilesFile(gen)).rejects.toThrow(/"tiles" has a generated column/);
+    const virt = await withSchema(["CREATE VIRTUAL TABLE extra USING rtree(id, minx, maxx)"]);
+    await expect(inspectMbtilesFile(virt)).rejects.toThrow(/virtual table/);
+  });
+
+  test("the package file is not modified by inspection (opened query_only)", async () => {
+    const png = await solidPng([5, 5, 5]);
+    const file = await writeMbtiles({ name: "ro", format: "png" }, [{ z: 0, x: 0, y: 0, data: png }]);
+    const { readFileSync } = await import("node:fs");
+    const before = readFileSync(file);
+    await inspectMbtilesFile(file);
+    expect(readFileSync(file).equals(before)).toBe(true);
+  });
+});
