@@ -1,7 +1,9 @@
 /**
  * Build the shipped reference library (lib/science/minerals/library.json) from the mineral CIFs in
  * lib/science/minerals/cif: pattern for Cu Kα1 up to 100° 2θ (lines with I ≥ 0.5), RIR against corundum.cif, and
- * the `# lithodex-group:`, `# lithodex-hazard:`, `# lithodex-alias:` comment lines of each file.
+ * the `# lithodex-group:`, `# lithodex-hazard:`, `# lithodex-alias:` comment lines of each file, and the data the
+ * whole-pattern fit needs (PhaseFitData in lib/science/types.ts): cell volume, cell-content mass Z·M, the absolute
+ * m·|F|²·Lp of the 100-line, and the `# lithodex-texture:`, `# lithodex-broadening:`, `# lithodex-variable001:` tags.
  *
  *   npx tsx scripts/build-reference-library.ts           write the JSON
  *   npx tsx scripts/build-reference-library.ts --check   exit 1 when the JSON is out of date
@@ -13,7 +15,7 @@ import { basename, dirname, join } from "node:path";
 import { fileURLToPath, pathToFileURL } from "node:url";
 import { CifError, computePattern, parseCif, referenceIntensityRatio, type CifStructure } from "@/lib/science/crystal";
 import type { LibraryFile, LibraryPhase } from "@/lib/science/minerals";
-import { citationOf, crystalSystemOf, lithodexComments } from "@/lib/science/minerals/cif-metadata";
+import { citationOf, crystalSystemOf, fitDataOf, lithodexComments } from "@/lib/science/minerals/cif-metadata";
 
 export { citationOf, crystalSystemOf, lithodexComments };
 
@@ -57,6 +59,8 @@ export function buildReferenceLibrary(cifs: readonly CifFile[]): LibraryFile {
     if (lines.length === 0) throw new Error(`${basename(file)}: no lines computed up to ${LIBRARY_TWO_THETA_MAX}° 2θ`);
     const rir = referenceIntensityRatio(structure, corundum, patternOptions);
     const meta = lithodexComments(text);
+    if (meta.problems.length) throw new Error(`${basename(file)}: ${meta.problems.join("; ")}`);
+    const fit = fitDataOf(structure, lines, meta);
     const { a, b, c, alpha, beta, gamma } = structure.cell;
     phases.push({
       id,
@@ -74,6 +78,7 @@ export function buildReferenceLibrary(cifs: readonly CifFile[]): LibraryFile {
       citation: citationOf(structure),
       databaseCode: structure.citation.databaseCode ?? null,
       source: `lib/science/minerals/cif/${basename(file)}`,
+      ...fit,
       lines: lines
         .map((l) => [l.h, l.k, l.l, round(l.d, 5), round(l.intensity, 2), l.multiplicity] as [number, number, number, number, number, number])
         .sort((p, q) => q[3] - p[3] || p[0] - q[0] || p[1] - q[1] || p[2] - q[2]),

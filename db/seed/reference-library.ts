@@ -8,7 +8,8 @@ import { join } from "node:path";
 import { and, eq } from "drizzle-orm";
 import { getDb } from "@/db";
 import { referencePhases } from "@/db/schema";
-import { LIBRARY_PHASES, type LibraryPhase } from "@/lib/science/minerals";
+import { fitFieldsOf, LIBRARY_PHASES, type LibraryPhase } from "@/lib/science/minerals";
+import type { PhaseFitData } from "@/lib/science/types";
 
 type ReferenceInsert = typeof referencePhases.$inferInsert;
 
@@ -33,6 +34,7 @@ export function libraryPhaseRow(phase: LibraryPhase, root = process.cwd()): Refe
     cifText: readFileSync(join(root, phase.source), "utf8"),
     patternJson: phase.lines.map(([h, k, l, d, intensity, multiplicity]) => ({ h, k, l, d, intensity, multiplicity })),
     rir: phase.rir,
+    fitJson: fitFieldsOf(phase) as PhaseFitData,
     builtin: true,
   };
 }

@@ -10,7 +10,8 @@ import { CifError, computePatternDetailed, parseCif, referenceIntensityRatio, ty
 import { findLibraryPhase } from "@/lib/science/minerals";
 import { twoThetaFromD } from "@/lib/science/units";
 import { hazardFromName, patternQuerySchema, referenceListQuerySchema } from "@/lib/validation/scan";
-import { citationOf, crystalSystemOf, lithodexComments } from "@/lib/science/minerals/cif-metadata";
+import { citationOf, crystalSystemOf, fitDataOf, lithodexComments } from "@/lib/science/minerals/cif-metadata";
+import type { PhaseFitData } from "@/lib/science/types";
 import type { Actor } from "./actor";
 import { audit } from "./audit";
 import { AppError, forbidden, notFound } from "./errors";
@@ -203,6 +204,8 @@ export async function importReferenceCifs(actor: Actor, files: { name: string; b
     let lines: StoredLine[];
     let warnings: string[];
     let rir: number | null = null;
+    let fit: PhaseFitData | null = null;
+    const meta = lithodexComments(text);
     try {
       structure = parseCif(text);
       const why = nonAmbient(structure);
@@ -216,7 +219,9 @@ export async function importReferenceCifs(actor: Actor, files: { name: string; b
         continue;
       }
       lines = result.lines.map((l) => ({ h: l.h, k: l.k, l: l.l, d: Math.round(l.d * 1e5) / 1e5, intensity: Math.round(l.intensity * 100) / 100, multiplicity: l.multiplicity }));
-      warnings = [...structure.warnings, ...result.warnings];
+      warnings = [...structure.warnings, ...result.warnings, ...meta.problems.map((p) => `Ignored: ${p}.`)];
+      // cell volume, Z·M and the absolute scale of the 100-line for the whole-pattern fit (Hill & Howard 1987)
+      fit = fitDataOf(structure, result.lines, meta);
       try {
         rir = Math.round(referenceIntensityRatio(structure, corundum, { wavelength: LIBRARY_WAVELENGTH, twoThetaMax: LIBRARY_TWO_THETA_MAX }) * 1000) / 1000;
       } catch (err) {
@@ -234,7 +239,6 @@ export async function importReferenceCifs(actor: Actor, files: { name: string; b
       }
       throw err;
     }
-    const meta = lithodexComments(text);
     const mineral = (structure.mineral ?? structure.blockName).trim().toLowerCase().slice(0, 120);
     const hazardTag = meta.hazards.find((h): h is "asbestos" | "crystalline_silica" => h === "asbestos" || h === "crystalline_silica");
     const hazard = hazardTag ?? hazardFromName(mineral);
@@ -269,6 +273,7 @@ export async function importReferenceCifs(actor: Actor, files: { name: string; b
           cifText: text,
           patternJson: lines,
           rir,
+          fitJson: fit,
           builtin: false,
           importedBy: actor.userId,
         })

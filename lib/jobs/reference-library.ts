@@ -1,7 +1,8 @@
 import { count, max } from "drizzle-orm";
 import { getDb } from "@/db";
 import { referencePhases } from "@/db/schema";
-import type { ReferenceLine, ReferencePattern } from "@/lib/science/types";
+import { fitFieldsOf } from "@/lib/science/minerals";
+import type { PhaseFitData, ReferenceLine, ReferencePattern } from "@/lib/science/types";
 
 /** One stored pattern line, as written by the seed and the CIF import. */
 export interface StoredLine {
@@ -16,7 +17,10 @@ export interface StoredLine {
 type ReferenceRow = Pick<
   typeof referencePhases.$inferSelect,
   "id" | "mineral" | "formula" | "elements" | "patternJson" | "rir" | "hazard" | "mineralGroup"
->;
+> & {
+  /** Whole-pattern fit data (null or absent for rows stored before the column existed). */
+  fitJson?: Partial<PhaseFitData> | null;
+};
 
 /** A reference_phases row as the identifier's pattern; the pattern id is the row id, so candidates map back to rows. */
 export function patternFromRow(row: ReferenceRow): ReferencePattern {
@@ -30,6 +34,7 @@ export function patternFromRow(row: ReferenceRow): ReferencePattern {
     ...(row.rir != null ? { rir: row.rir } : {}),
     ...(row.hazard ? { hazard: row.hazard } : {}),
     ...(row.mineralGroup ? { group: row.mineralGroup } : {}),
+    ...(row.fitJson ? fitFieldsOf(row.fitJson) : {}),
   };
 }
 
@@ -65,6 +70,7 @@ export async function loadReferenceLibrary(): Promise<readonly ReferencePattern[
       rir: referencePhases.rir,
       hazard: referencePhases.hazard,
       mineralGroup: referencePhases.mineralGroup,
+      fitJson: referencePhases.fitJson,
     })
     .from(referencePhases)
     .orderBy(referencePhases.mineral, referencePhases.id);

@@ -79,4 +79,45 @@ export interface ReferencePattern {
   rir?: number;
   hazard?: "asbestos" | "crystalline_silica";
   group?: string;
+  /** Cell volume V (Å³) of the structure the lines were computed from. Optional: see {@link PhaseFitData}. */
+  cellVolume?: number;
+  /** Mass of the unit-cell contents Z·M (g/mol): sites × occupancies × atomic weights, plus formula-sum H the sites omit. */
+  cellMass?: number;
+  /** m·|F|²·Lp of the line with intensity 100 (electrons² per cell × Lp); absolute = intensity/100 × absoluteScale. */
+  absoluteScale?: number;
+  /** Usual preferred-orientation plane [h, k, l] for March–Dollase (platy or prismatic habit). */
+  texture?: [number, number, number];
+  /** Typical peak-width multiple relative to a well-crystallised phase (e.g. 3 for illite). */
+  broadening?: number;
+  /** d(001) changes with hydration and interlayer cation (smectites). */
+  variable001?: boolean;
+  /** Range of d(001) (Å) met in practice when `variable001` is set. */
+  d001Range?: [number, number];
+  /** Unit cell of the structure the lines were computed from (Å, °): preferred-orientation angles need it. */
+  cell?: { a: number; b: number; c: number; alpha: number; beta: number; gamma: number };
+}
+
+/**
+ * Per-phase data the whole-pattern fit needs beyond the lines (all optional on {@link ReferencePattern}, so
+ * imported phases without them still work).
+ *
+ * - `cellVolume` V (Å³), `cellMass` Z·M (g/mol) and `absoluteScale` (m·|F|²·Lp of the 100-line for Cu Kα1,
+ *   Bragg–Brentano, no monochromator: the library's convention) give Hill & Howard (1987, J. Appl. Cryst. 20,
+ *   467) quantification: a fitted multiplier s of the relative profile (intensity/100) is a Rietveld scale
+ *   S = s / absoluteScale on the |F|²-per-cell scale, and W_p = S_p·(ZMV)_p / Σ_i S_i·(ZMV)_i.
+ * - `texture`: the plane a platy or prismatic phase usually lies on in a back-loaded mount, the direction of
+ *   March–Dollase preferred orientation (Dollase 1986, J. Appl. Cryst. 19, 267): 001 for micas, clays and
+ *   chlorites, 104 for the calcite-group carbonates (hexagonal setting), 110 for monoclinic amphiboles, 010 for
+ *   gypsum (common practice in Rietveld quantification of rocks and soils).
+ * - `broadening`: a typical width multiple for phases that never give sharp lines (illite, smectite).
+ * - `variable001` and `d001Range`: the basal spacing depends on hydration and cation (smectites).
+ */
+export interface PhaseFitData {
+  cellVolume: number;
+  cellMass: number;
+  absoluteScale: number;
+  texture?: [number, number, number];
+  broadening?: number;
+  variable001?: boolean;
+  d001Range?: [number, number];
 }

@@ -4,7 +4,7 @@
  * scripts/build-reference-library.ts. Calculated patterns are references for search–match, not measured data;
  * a ranked candidate is a suggestion, not a confirmed identification.
  */
-import type { ReferencePattern } from "@/lib/science/types";
+import type { PhaseFitData, ReferencePattern } from "@/lib/science/types";
 import data from "./library.json";
 
 /** One line as stored: [h, k, l, d (Å), intensity (0–100), multiplicity]. */
@@ -37,6 +37,23 @@ export interface LibraryPhase {
   databaseCode: string | null;
   /** CIF path relative to the repository root. */
   source: string;
+  /** Cell volume V (Å³). */
+  cellVolume: number;
+  /** Mass of the unit-cell contents Z·M (g/mol): sites × occupancies × IUPAC atomic weights, plus the H of the formula sum when the sites omit it. */
+  cellMass: number;
+  /**
+   * m·|F|²·Lp (electrons² per cell × Lp, Cu Kα1, no monochromator) of the line with intensity 100, so that a
+   * line's absolute intensity is intensity/100 × absoluteScale (Hill & Howard 1987 ZMV quantification).
+   */
+  absoluteScale: number;
+  /** `# lithodex-texture:` usual preferred-orientation plane [h, k, l] (Dollase 1986 direction), when platy/prismatic. */
+  texture?: [number, number, number];
+  /** `# lithodex-broadening:` typical peak-width multiple (illite, smectite). */
+  broadening?: number;
+  /** `# lithodex-variable001:` d(001) varies with hydration and cation (smectite). */
+  variable001?: boolean;
+  /** d(001) range (Å) met in practice when `variable001` is set. */
+  d001Range?: [number, number];
   lines: LibraryLine[];
 }
 
@@ -61,6 +78,19 @@ export const LIBRARY_PHASES: readonly LibraryPhase[] = LIBRARY_FILE.phases;
 
 const TYPED_HAZARDS = new Set(["asbestos", "crystalline_silica"]);
 
+/** The optional {@link PhaseFitData} fields of a stored phase (only those present). */
+export function fitFieldsOf(phase: Partial<PhaseFitData>): Partial<PhaseFitData> {
+  const out: Partial<PhaseFitData> = {};
+  if (phase.cellVolume !== undefined) out.cellVolume = phase.cellVolume;
+  if (phase.cellMass !== undefined) out.cellMass = phase.cellMass;
+  if (phase.absoluteScale !== undefined) out.absoluteScale = phase.absoluteScale;
+  if (phase.texture) out.texture = [...phase.texture];
+  if (phase.broadening !== undefined) out.broadening = phase.broadening;
+  if (phase.variable001) out.variable001 = true;
+  if (phase.d001Range) out.d001Range = [...phase.d001Range];
+  return out;
+}
+
 /**
  * Convert a stored phase to the identifier's {@link ReferencePattern} (lines as objects with Cu Kα1 2θ).
  */
@@ -83,6 +113,7 @@ export function toReferencePattern(phase: LibraryPhase, wavelength = LIBRARY_FIL
     rir: phase.rir,
     ...(hazard ? { hazard } : {}),
     ...(phase.group ? { group: phase.group } : {}),
+    ...fitFieldsOf(phase),
   };
 }
 
