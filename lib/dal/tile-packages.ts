@@ -17,10 +17,10 @@ import { audit } from "./audit";
 import { AppError, invalid, notFound } from "./errors";
 import { validateInput } from "./validate";
 
-/** Largest package accepted, bytes: env LITHODEX_MAX_TILE_PACKAGE_BYTES, default 1 GiB. */
+/** Largest package accepted, bytes: env LITHODEX_MAX_TILE_PACKAGE_BYTES, default 500 MiB (the route's body limit). */
 export function maxTilePackageBytes(): number {
   const v = Number(process.env.LITHODEX_MAX_TILE_PACKAGE_BYTES);
-  return Number.isFinite(v) && v > 0 ? v : 1024 ** 3;
+  return Number.isFinite(v) && v > 0 ? v : 500 * 1024 ** 2;
 }
 
 export type TilePackageRow = typeof tilePackages.$inferSelect;

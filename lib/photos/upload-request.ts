@@ -44,7 +44,12 @@ export async function readUploadFiles(req: Request, options: ReadUploadOptions =
   let form: FormData;
   try {
     form = await req.formData();
-  } catch {
+  } catch (err) {
+    // The route's byte counter stops a body past its limit while it streams in (chunked bodies included).
+    const cause = (err as { cause?: { code?: string; message?: string } })?.cause;
+    if (cause?.code === "payload_too_large" || (err as { code?: string })?.code === "payload_too_large") {
+      throw new UploadRequestError(413, cause?.message ?? (err as Error).message);
+    }
     throw new UploadRequestError(400, "The upload could not be read as a form; try again.");
   }
   const files: UploadedFile[] = [];

@@ -1,5 +1,5 @@
 import { NextResponse } from "next/server";
-import { errorResponse, parseJson } from "@/lib/api/handler";
+import { assertSameOrigin, errorResponse, parseJson } from "@/lib/api/handler";
 import { acceptInvitation, getInvitationByToken } from "@/lib/dal/invitations";
 
 type Ctx = { params: Promise<{ token: string }> };
@@ -16,6 +16,7 @@ export async function GET(_req: Request, ctx: Ctx) {
 // POST /api/invitations/:token — accept: a new account sets name and password, an existing one joins (public; single use)
 export async function POST(req: Request, ctx: Ctx) {
   try {
+    assertSameOrigin(req);
     const { token } = await ctx.params;
     return NextResponse.json(await acceptInvitation(token, await parseJson(req)));
   } catch (err) {

@@ -6,4 +6,4 @@ import { listMembers } from "@/lib/dal/members";
 export const GET = withActor<{ projectId: string }>(async ({ params, actor }) => listMembers(actor, params.projectId));
 
 // POST /api/projects/:projectId/members — invite by e-mail with a role; sends a single-use link (lead)
-export const POST = withActor<{ projectId: string }>(async ({ req, params, actor }) => created(await createInvitation(actor, params.projectId, await parseJson(req))));
+export const POST = withActor<{ projectId: string }>({ permission: "project.manage" }, async ({ req, params, actor }) => created(await createInvitation(actor, params.projectId, await parseJson(req))));

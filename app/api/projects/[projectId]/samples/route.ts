@@ -8,6 +8,6 @@ export const GET = withActor<{ projectId: string }>(async ({ actor, params, url 
 );
 
 // POST /api/projects/:projectId/samples — create a sample (lead, field geologist)
-export const POST = withActor<{ projectId: string }>(async ({ actor, params, req }) =>
+export const POST = withActor<{ projectId: string }>({ permission: "sample.write" }, async ({ actor, params, req }) =>
   created(await createSample(actor, params.projectId, await parseJson(req))),
 );

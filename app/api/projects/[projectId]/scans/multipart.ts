@@ -1,4 +1,5 @@
 import "server-only";
+import { readError } from "@/lib/api/body";
 import { AppError } from "@/lib/dal/errors";
 import type { UploadedFile } from "@/lib/dal/scans";
 
@@ -11,8 +12,9 @@ export async function readMultipart(req: Request, fileFields: readonly string[] 
   let form: FormData;
   try {
     form = await req.formData();
-  } catch {
-    throw new AppError("bad_request", "The upload could not be read as multipart/form-data.");
+  } catch (err) {
+    // A body past the route's limit (counted while it streams in) is a 413, anything else a 400.
+    throw readError(req, err, new AppError("bad_request", "The upload could not be read as multipart/form-data."));
   }
   const fields: Record<string, string> = {};
   const files: UploadedFile[] = [];

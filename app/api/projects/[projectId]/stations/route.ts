@@ -7,4 +7,4 @@ type P = { projectId: string };
 export const GET = withActor<P>(async ({ actor, params, url }) => listStations(actor, params.projectId, Object.fromEntries(url.searchParams)));
 
 // POST /api/projects/:projectId/stations — create a station; code from the station sequence when omitted (lead, field geologist)
-export const POST = withActor<P>(async ({ actor, params, req }) => created(await createStation(actor, params.projectId, await parseJson(req))));
+export const POST = withActor<P>({ permission: "station.write" }, async ({ actor, params, req }) => created(await createStation(actor, params.projectId, await parseJson(req))));

@@ -7,4 +7,4 @@ export const GET = withActor<{ projectId: string }>(async ({ params, actor, url 
 }));
 
 // POST /api/projects/:projectId/submissions — create a draft submission from selected samples (lead, field geologist)
-export const POST = withActor<{ projectId: string }>(async ({ req, params, actor }) => created(await createSubmission(actor, params.projectId, await parseJson(req))));
+export const POST = withActor<{ projectId: string }>({ permission: "submission.write" }, async ({ req, params, actor }) => created(await createSubmission(actor, params.projectId, await parseJson(req))));

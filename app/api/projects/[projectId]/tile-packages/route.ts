@@ -1,3 +1,4 @@
+import { BODY_LIMITS } from "@/lib/api/body";
 import { created, withActor } from "@/lib/api/handler";
 import { AppError } from "@/lib/dal/errors";
 import { createTilePackage, listTilePackages } from "@/lib/dal/tile-packages";
@@ -6,7 +7,7 @@ import { createTilePackage, listTilePackages } from "@/lib/dal/tile-packages";
 export const GET = withActor<{ projectId: string }>(async ({ actor, params }) => listTilePackages(actor, params.projectId));
 
 // POST /api/projects/:projectId/tile-packages — upload an MBTiles file as the raw request body; name via x-filename (lead, field geologist)
-export const POST = withActor<{ projectId: string }>(async ({ actor, params, req }) => {
+export const POST = withActor<{ projectId: string }>({ permission: "tiles.manage", body: { kind: "raw", maxBytes: BODY_LIMITS.tiles, label: "an MBTiles package" } }, async ({ actor, params, req }) => {
   if ((req.headers.get("content-type") ?? "").startsWith("multipart/")) {
     throw new AppError("unsupported_media_type", "Send the .mbtiles file as the raw request body (content-type application/vnd.sqlite3), not as a form.");
   }

@@ -7,6 +7,6 @@ type P = { projectId: string; sampleId: string };
 export const GET = withActor<P>(async ({ actor, params }) => getSampleOrThrow(actor, params.projectId, params.sampleId));
 
 // PATCH /api/projects/:projectId/samples/:sampleId — edit with optimistic concurrency (lead, field geologist)
-export const PATCH = withActor<P>(async ({ actor, params, req }) =>
+export const PATCH = withActor<P>({ permission: "sample.write" }, async ({ actor, params, req }) =>
   updateSample(actor, params.projectId, params.sampleId, await parseJson(req)),
 );

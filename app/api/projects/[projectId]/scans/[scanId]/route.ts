@@ -7,4 +7,4 @@ type P = { projectId: string; scanId: string };
 export const GET = withActor<P>(async ({ actor, params, url }) => getScanOrThrow(actor, params.projectId, params.scanId, url.searchParams.get("run") || null));
 
 // PATCH /api/projects/:projectId/scans/:scanId — make an earlier finished run current, body {currentRunId} (lab analyst)
-export const PATCH = withActor<P>(async ({ actor, params, req }) => selectScanRun(actor, params.projectId, params.scanId, await parseJson(req)));
+export const PATCH = withActor<P>({ permission: "phase.review" }, async ({ actor, params, req }) => selectScanRun(actor, params.projectId, params.scanId, await parseJson(req)));

@@ -7,4 +7,4 @@ type P = { projectId: string; stationId: string };
 export const GET = withActor<P>(async ({ actor, params }) => getStationOrThrow(actor, params.projectId, params.stationId));
 
 // PATCH /api/projects/:projectId/stations/:stationId — edit or move with optimistic concurrency (lead, field geologist)
-export const PATCH = withActor<P>(async ({ actor, params, req }) => updateStation(actor, params.projectId, params.stationId, await parseJson(req)));
+export const PATCH = withActor<P>({ permission: "station.write" }, async ({ actor, params, req }) => updateStation(actor, params.projectId, params.stationId, await parseJson(req)));

@@ -1,3 +1,4 @@
+import { BODY_LIMITS } from "@/lib/api/body";
 import { created, withActor } from "@/lib/api/handler";
 import { MAX_PHOTOS_PER_UPLOAD, listPhotos, uploadPhotos } from "@/lib/dal/photos";
 import { readUploadFiles } from "@/lib/photos/upload-request";
@@ -8,6 +9,6 @@ type P = { projectId: string; sampleId: string };
 export const GET = withActor<P>(async ({ actor, params }) => listPhotos(actor, params.projectId, { sampleId: params.sampleId }));
 
 // POST /api/projects/:projectId/samples/:sampleId/photos — upload one or more photos, multipart field "files"; all or nothing (lead, field geologist)
-export const POST = withActor<P>(async ({ actor, params, req }) =>
+export const POST = withActor<P>({ permission: "sample.write", body: { kind: "multipart", maxBytes: BODY_LIMITS.photo, label: "a photo upload" } }, async ({ actor, params, req }) =>
   created(await uploadPhotos(actor, params.projectId, { sampleId: params.sampleId }, () => readUploadFiles(req, { maxFiles: MAX_PHOTOS_PER_UPLOAD }))),
 );

@@ -4,7 +4,7 @@ import { deleteStructure } from "@/lib/dal/structures";
 type P = { projectId: string; stationId: string; structureId: string };
 
 // DELETE /api/projects/:projectId/stations/:stationId/structures/:structureId — remove a measurement (lead, field geologist)
-export const DELETE = withActor<P>(async ({ actor, params }) => {
+export const DELETE = withActor<P>({ permission: "station.write" }, async ({ actor, params }) => {
   await deleteStructure(actor, params.projectId, params.stationId, params.structureId);
   return new Response(null, { status: 204 });
 });
