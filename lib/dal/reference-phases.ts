@@ -24,7 +24,8 @@ const LIBRARY_TWO_THETA_MAX = 100;
 const LIBRARY_MIN_INTENSITY = 0.5;
 /** Largest CIF accepted, bytes. */
 export const MAX_CIF_BYTES = 2 * 1024 * 1024;
-export const MAX_CIF_FILES = 50;
+/** Most CIF files in one import request (the request body is capped at 2 MiB too). */
+export const MAX_CIF_FILES = 20;
 
 /** Handling hazards of a shipped phase beyond the two typed ones (radioactive, toxic-arsenic…). */
 export function otherHazardsOf(mineral: string): string[] {
@@ -185,7 +186,7 @@ function nonAmbient(s: CifStructure): string | null {
 export async function importReferenceCifs(actor: Actor, files: { name: string; bytes: Uint8Array }[]) {
   if (!(await canImportReferences(actor))) throw forbidden("Only lab analysts and site admins can import reference structures.");
   if (files.length === 0) throw new AppError("validation_failed", "Choose one or more CIF files.", { files: ["Choose one or more CIF files."] });
-  if (files.length > MAX_CIF_FILES) throw new AppError("validation_failed", `At most ${MAX_CIF_FILES} CIF files at a time.`, { files: [`At most ${MAX_CIF_FILES} CIF files at a time.`] });
+  if (files.length > MAX_CIF_FILES) throw new AppError("validation_failed", `${files.length} files is over the limit of ${MAX_CIF_FILES} CIF files per import request (MAX_CIF_FILES).`, { files: [`At most ${MAX_CIF_FILES} CIF files per import request; this one has ${files.length}.`] });
   const db = getDb();
   const corundum = await corundumStructure();
   const errors: CifProblem[] = [];

@@ -11,7 +11,8 @@ export type CifErrorCode =
   | "no-symmetry"
   | "bad-symop"
   | "unknown-element"
-  | "not-numeric";
+  | "not-numeric"
+  | "limit";
 
 /**
  * A CIF that cannot be read or cannot be turned into a structure model.

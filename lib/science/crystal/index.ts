@@ -3,7 +3,7 @@
  * Pure computation (no I/O): callers pass CIF text in.
  */
 export { CifError, type CifErrorCode } from "./cif-error";
-export { parseCif, DEFAULT_B_ISO, type ParseCifOptions } from "./parse-cif";
+export { parseCif, CIF_LIMITS, DEFAULT_B_ISO, type ParseCifOptions } from "./parse-cif";
 export { readCifBlocks, parseCifNumber, type CifBlock, type CifLoop, type CifValue, type CifNumber } from "./cif-star";
 export { parseSymop, type SymOp } from "./symop";
 export {

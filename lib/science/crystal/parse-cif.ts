@@ -25,6 +25,21 @@ const EIGHT_PI2 = 8 * Math.PI * Math.PI;
 /** B (Å²) assumed when a site has no displacement parameter (common practice for mineral structures). */
 export const DEFAULT_B_ISO = 0.5;
 
+/**
+ * Limits that keep one uploaded CIF from occupying the server (a P 1 cell with a = 60 Å and 600 atoms took 12 s).
+ * The shipped library peaks at V ≈ 2 600 Å³, 52 sites and 192 operators; these bounds leave room for zeolites and
+ * clay supercells (V up to ≈ 15 000 Å³) — common practice, not a crystallographic rule. 192 operators is the largest
+ * conventional-cell group order (F m -3 m, International Tables A, 2016).
+ */
+export const CIF_LIMITS = {
+  /** Largest unit-cell volume, Å³. */
+  maxCellVolume: 20_000,
+  /** Most atom sites in the asymmetric unit (rows of the atom-site loop). */
+  maxSites: 300,
+  /** Most symmetry operators. */
+  maxSymops: 192,
+} as const;
+
 export interface ParseCifOptions {
   /** Name of the data block to read (without `data_`); default: the first block with atom sites. */
   block?: string;
@@ -420,8 +435,23 @@ export function parseCif(cifText: string, options: ParseCifOptions = {}): CifStr
   const name = firstText(block, ["_space_group_name_h-m_alt", "_symmetry_space_group_name_h-m"]);
   const number = firstNumber(block, ["_space_group_it_number", "_symmetry_int_tables_number"]);
   const hall = firstText(block, ["_space_group_name_hall", "_symmetry_space_group_name_hall"]);
+  const volume = cellVolume(cell);
+  if (volume > CIF_LIMITS.maxCellVolume) {
+    throw new CifError(
+      "limit",
+      `cell volume ${Math.round(volume)} Å³ is over the limit of ${CIF_LIMITS.maxCellVolume} Å³ (maxCellVolume) for imported structures`,
+      block.names.get("_cell_length_a") ?? block.line,
+      "_cell_length_a",
+    );
+  }
   const symops = readSymops(block, name, number, warnings);
+  if (symops.length > CIF_LIMITS.maxSymops) {
+    throw new CifError("limit", `${symops.length} symmetry operators is over the limit of ${CIF_LIMITS.maxSymops} (maxSymops)`, block.line, "_space_group_symop_operation_xyz");
+  }
   const sites = readSites(block, cell, warnings);
+  if (sites.length > CIF_LIMITS.maxSites) {
+    throw new CifError("limit", `${sites.length} atom sites in the asymmetric unit is over the limit of ${CIF_LIMITS.maxSites} (maxSites)`, block.names.get("_atom_site_fract_x") ?? block.line, "_atom_site_fract_x");
+  }
   const z = firstNumber(block, ["_cell_formula_units_z"]);
   return {
     blockName: block.name,

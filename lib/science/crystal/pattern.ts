@@ -5,6 +5,7 @@
  */
 import type { ReferenceLine } from "../types";
 import { cellVolume, inverseDSquared, reciprocalMetricTensor } from "./cell";
+import { CifError } from "./cif-error";
 import { expandSites, type ExpandedCell } from "./expand-sites";
 import { lorentzPolarisation } from "./lorentz-polarisation";
 import { marchDollase } from "./preferred-orientation";
@@ -15,6 +16,23 @@ import type { CifStructure, PatternOptions } from "./types";
 export const CU_KA1 = 1.540593;
 
 const DEG = 180 / Math.PI;
+
+/**
+ * Work bounds of one pattern computation (a hostile structure must fail fast, not run for minutes). The number of
+ * reciprocal-lattice points with d ≥ dMin is ≈ (4π/3)·V/dMin³ (the volume of the limiting sphere times the cell
+ * volume; International Tables B, 2008, §1.1.3); each needs a sum over every atom of the cell.
+ */
+export const PATTERN_LIMITS = {
+  /** Most hkl inside the limiting sphere (before symmetry grouping). */
+  maxReflections: 150_000,
+  /** Most reflection × atom-in-cell terms of the structure-factor sums (≈ 1 s on one core here). */
+  maxStructureFactorTerms: 30_000_000,
+} as const;
+
+/** Estimated hkl count inside the limiting sphere 1/d ≤ 1/dMin for a cell of volume V (Å³). */
+export function estimatedReflections(volume: number, dMin: number): number {
+  return ((4 * Math.PI) / 3) * (volume / dMin ** 3);
+}
 
 /** One set of symmetry-equivalent reflections (Friedel mates included). */
 export interface ReflectionClass {
@@ -311,7 +329,22 @@ function validate(structure: CifStructure, options: PatternOptions) {
 export function computePatternDetailed(structure: CifStructure, options: PatternOptions = {}): PatternResult {
   const o = validate(structure, options);
   const gs = reciprocalMetricTensor(structure.cell);
+  const reflections = estimatedReflections(cellVolume(structure.cell), o.dMin);
+  if (reflections > PATTERN_LIMITS.maxReflections) {
+    throw new CifError(
+      "limit",
+      `about ${Math.round(reflections)} reflections down to d = ${o.dMin.toFixed(3)} Å is over the limit of ${PATTERN_LIMITS.maxReflections} (maxReflections); lower 2θ max or use a smaller cell`,
+      0,
+    );
+  }
   const cells = expandSites(structure, o.siteTolerance);
+  if (reflections * cells.x.length > PATTERN_LIMITS.maxStructureFactorTerms) {
+    throw new CifError(
+      "limit",
+      `${cells.x.length} atoms in the cell × about ${Math.round(reflections)} reflections is over the limit of ${PATTERN_LIMITS.maxStructureFactorTerms} structure-factor terms (maxStructureFactorTerms)`,
+      0,
+    );
+  }
   const cls = enumerateClasses(structure, gs, o.dMin, o.dMax);
   const warnings = [...o.warnings];
   if (cls.metricMismatch > 0) {
