@@ -1,7 +1,7 @@
 /** @type {import('next').NextConfig} */
 const nextConfig = {
-  // exifr loads fs/zlib dynamically and pdfkit reads its font metrics from its own folder: bundling breaks both.
-  serverExternalPackages: ["exifr", "pdfkit"],
+  // exifr loads fs/zlib dynamically, pdfkit reads its font metrics and piscina starts its worker file from their own folders: bundling breaks them.
+  serverExternalPackages: ["exifr", "pdfkit", "piscina"],
   poweredByHeader: false,
   // A separate build folder lets browser tests build beside a running dev server.
   distDir: process.env.NEXT_DIST_DIR || ".next",

@@ -6,7 +6,7 @@ import { getDb } from "@/db";
 import { projectMembers, referencePhases, user } from "@/db/schema";
 import { invalidateReferenceLibrary, type StoredLine } from "@/lib/jobs";
 import { ANODE_WAVELENGTHS } from "@/lib/science/anodes";
-import { CifError, computePatternDetailed, parseCif, referenceIntensityRatio, type CifStructure } from "@/lib/science/crystal";
+import type { CifStructure } from "@/lib/science/crystal";
 import { findLibraryPhase } from "@/lib/science/minerals";
 import { twoThetaFromD } from "@/lib/science/units";
 import { hazardFromName, patternQuerySchema, referenceListQuerySchema } from "@/lib/validation/scan";
@@ -17,6 +17,14 @@ import { audit } from "./audit";
 import { AppError, forbidden, notFound } from "./errors";
 import { PERMISSIONS } from "./permissions";
 import { validateInput } from "./validate";
+import { runJob, TaskError } from "@/lib/workers/pool";
+import type { CifImportOutput } from "@/lib/workers/tasks/cif-import";
+
+/** Limits of one CIF job in the worker pool (the CIF and pattern limits keep real work far below them). */
+const CIF_JOB_LIMITS = { timeoutMs: 15_000, maxMemoryMb: 256 };
+
+/** True for errors a CIF job reports about the file itself (not a server fault). */
+const isFileProblem = (err: unknown): err is TaskError => err instanceof TaskError && ["CifError", "RangeError", "TypeError"].includes(err.remoteName);
 
 /** Settings of the shipped library, used for imported structures too (Cu Kα1, 2θ ≤ 100°, I ≥ 0.5). */
 const LIBRARY_WAVELENGTH = 1.540593;
@@ -120,11 +128,16 @@ export async function getReferencePhaseOrThrow(actor: Actor, id: string, raw: un
   let lines: { h: number; k: number; l: number; d: number; twoTheta: number; intensity: number; multiplicity: number }[];
   let warnings: string[] = [];
   try {
-    const result = computePatternDetailed(parseCif(p.cifText), { wavelength, twoThetaMax: q.twoThetaMax, minIntensity: LIBRARY_MIN_INTENSITY });
+    const result = await runJob<{ warnings: string[]; lines: typeof lines }>(
+      "cif-pattern",
+      { cifText: p.cifText, wavelength, twoThetaMax: q.twoThetaMax, minIntensity: LIBRARY_MIN_INTENSITY },
+      CIF_JOB_LIMITS,
+      `The pattern of ${p.mineral}`,
+    );
     warnings = result.warnings;
-    lines = result.lines.map((l) => ({ h: l.h, k: l.k, l: l.l, d: l.d, twoTheta: l.twoTheta, intensity: l.intensity, multiplicity: l.multiplicity }));
+    lines = result.lines;
   } catch (err) {
-    if (!(err instanceof CifError || err instanceof RangeError)) throw err;
+    if (!isFileProblem(err)) throw err;
     // The stored lines (Cu Kα1) converted by Bragg's law: positions are right, intensities keep the Cu Lp factor.
     warnings = [`Pattern recomputation failed (${err.message}); stored Cu Kα1 intensities shown at the new positions.`];
     lines = (p.patternJson as StoredLine[])
@@ -149,14 +162,13 @@ export async function getReferenceCif(actor: Actor, id: string) {
   return row;
 }
 
-let corundumCache: CifStructure | null = null;
+let corundumCache: string | null = null;
 
-/** Corundum, the RIR reference: the shipped row in the database, else the shipped CIF file. */
-async function corundumStructure(): Promise<CifStructure> {
+/** Corundum, the RIR reference: the shipped row in the database, else the shipped CIF file (its text; workers parse it). */
+async function corundumText(): Promise<string> {
   if (corundumCache) return corundumCache;
   const [row] = await getDb().select({ cif: referencePhases.cifText }).from(referencePhases).where(and(eq(referencePhases.mineral, "corundum"), eq(referencePhases.builtin, true)));
-  const text = row?.cif ?? readFileSync(join(process.cwd(), "lib/science/minerals/cif/corundum.cif"), "utf8");
-  corundumCache = parseCif(text);
+  corundumCache = row?.cif ?? readFileSync(join(process.cwd(), "lib/science/minerals/cif/corundum.cif"), "utf8");
   return corundumCache;
 }
 
@@ -188,7 +200,7 @@ export async function importReferenceCifs(actor: Actor, files: { name: string; b
   if (files.length === 0) throw new AppError("validation_failed", "Choose one or more CIF files.", { files: ["Choose one or more CIF files."] });
   if (files.length > MAX_CIF_FILES) throw new AppError("validation_failed", `${files.length} files is over the limit of ${MAX_CIF_FILES} CIF files per import request (MAX_CIF_FILES).`, { files: [`At most ${MAX_CIF_FILES} CIF files per import request; this one has ${files.length}.`] });
   const db = getDb();
-  const corundum = await corundumStructure();
+  const corundum = await corundumText();
   const errors: CifProblem[] = [];
   const imported: { id: string; fileName: string; mineral: string; formula: string; lines: number; rir: number | null; hazard: string | null; warnings: string[] }[] = [];
   for (const file of files) {
@@ -208,13 +220,20 @@ export async function importReferenceCifs(actor: Actor, files: { name: string; b
     let fit: PhaseFitData | null = null;
     const meta = lithodexComments(text);
     try {
-      structure = parseCif(text);
+      // Parsing, the pattern and the RIR run in the worker pool, under the CIF limits and a time and memory limit.
+      const job = await runJob<CifImportOutput>(
+        "cif-import",
+        { text, corundumText: corundum, wavelength: LIBRARY_WAVELENGTH, twoThetaMax: LIBRARY_TWO_THETA_MAX, minIntensity: LIBRARY_MIN_INTENSITY },
+        CIF_JOB_LIMITS,
+        file.name,
+      );
+      structure = job.structure;
+      const result = { lines: job.lines, warnings: job.patternWarnings };
       const why = nonAmbient(structure);
       if (why) {
         errors.push({ fileName: file.name, message: `Not imported: ${why}.`, code: "non-ambient" });
         continue;
       }
-      const result = computePatternDetailed(structure, { wavelength: LIBRARY_WAVELENGTH, twoThetaMax: LIBRARY_TWO_THETA_MAX, minIntensity: LIBRARY_MIN_INTENSITY });
       if (result.lines.length === 0) {
         errors.push({ fileName: file.name, message: `No diffraction lines up to ${LIBRARY_TWO_THETA_MAX}° 2θ (Cu Kα1); check the cell and atom sites.`, code: "no-lines" });
         continue;
@@ -223,19 +242,16 @@ export async function importReferenceCifs(actor: Actor, files: { name: string; b
       warnings = [...structure.warnings, ...result.warnings, ...meta.problems.map((p) => `Ignored: ${p}.`)];
       // cell volume, Z·M and the absolute scale of the 100-line for the whole-pattern fit (Hill & Howard 1987)
       fit = fitDataOf(structure, result.lines, meta);
-      try {
-        rir = Math.round(referenceIntensityRatio(structure, corundum, { wavelength: LIBRARY_WAVELENGTH, twoThetaMax: LIBRARY_TWO_THETA_MAX }) * 1000) / 1000;
-      } catch (err) {
-        if (!(err instanceof RangeError || err instanceof CifError)) throw err;
-        warnings.push(`RIR could not be computed (${err.message}); semi-quantitative wt% will not be available for this phase.`);
-      }
+      if (job.rir !== null) rir = Math.round(job.rir * 1000) / 1000;
+      else if (job.rirProblem) warnings.push(`RIR could not be computed (${job.rirProblem}); semi-quantitative wt% will not be available for this phase.`);
     } catch (err) {
-      if (err instanceof CifError) {
-        errors.push({ fileName: file.name, message: err.message, code: err.code, ...(err.line > 0 && { line: err.line }) });
+      if (isFileProblem(err)) {
+        errors.push({ fileName: file.name, message: err.message, ...(err.code && { code: err.code }), ...(err.line && err.line > 0 && { line: err.line }) });
         continue;
       }
-      if (err instanceof RangeError || err instanceof TypeError) {
-        errors.push({ fileName: file.name, message: err.message });
+      if (err instanceof AppError && err.code === "validation_failed") {
+        // over the job's time or memory limit: this file is refused, the others go on
+        errors.push({ fileName: file.name, message: err.message, code: "limit" });
         continue;
       }
       throw err;

@@ -3,7 +3,8 @@ import { and, eq, inArray, sql } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db";
 import { auditLog, projects, samples, stations } from "@/db/schema";
-import { SAMPLE_CSV_COLUMNS, parseSampleCsv, type CsvImportError, type CsvImportParse, type CsvImportRow } from "@/lib/csv";
+import { SAMPLE_CSV_COLUMNS, type CsvImportError, type CsvImportParse, type CsvImportRow } from "@/lib/csv";
+import { runJob } from "@/lib/workers/pool";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
 import { AppError } from "./errors";
@@ -53,7 +54,13 @@ function chunks<T>(items: readonly T[], size: number): T[][] {
 /** Parses the file, then checks what needs the database: codes and IGSNs already used, station codes. */
 async function parseAndCheck(projectId: string, raw: unknown): Promise<Checked> {
   const input = validateInput(sampleImportSchema, raw);
-  const parse = parseSampleCsv(input.csv, { mapping: input.mapping as CsvImportParse["mapping"] | undefined, decimalComma: input.decimalComma ?? "auto", defaultTimeZone: input.timeZone || null });
+  // Parsing and per-row validation of up to 12 million characters run in the worker pool (time and memory limit).
+  const parse = await runJob<CsvImportParse>(
+    "csv-parse",
+    { csv: input.csv, options: { mapping: input.mapping as CsvImportParse["mapping"] | undefined, decimalComma: input.decimalComma ?? "auto", defaultTimeZone: input.timeZone || null } },
+    { timeoutMs: 60_000, maxMemoryMb: 768 },
+    "Reading the CSV file",
+  );
   const errors = [...parse.errors];
   const db = getDb();
   const colOf = (field: string) => parse.headers.find((h) => parse.mapping[h] === field) ?? null;

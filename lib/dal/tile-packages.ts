@@ -10,7 +10,8 @@ import { and, desc, eq } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db";
 import { tilePackages } from "@/db/schema";
-import { MbtilesError, inspectMbtilesFile, openMbtilesFile, parseTileAddress, rasterFormatOf, tileContentType, type MbtilesReader } from "@/lib/mbtiles";
+import { MbtilesError, openMbtilesFile, parseTileAddress, rasterFormatOf, tileContentType, type MbtilesInspection, type MbtilesReader } from "@/lib/mbtiles";
+import { runJob, TaskError } from "@/lib/workers/pool";
 import { LocalDiskStorage, assertValidKey, getStorage, type BlobStorage } from "@/lib/storage";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
@@ -122,11 +123,14 @@ export async function createTilePackage(actor: Actor, projectId: string, upload:
   const tmp = await bodyToTempFile(upload.body, maxTilePackageBytes());
   try {
     if (tmp.size === 0) throw invalid("The file is empty.", { file: ["The file is empty."] });
-    let info;
+    let info: MbtilesInspection;
     try {
-      info = await inspectMbtilesFile(tmp.path);
+      // Checked in the worker pool (schema first, bounded queries), with a time and memory limit per job.
+      info = await runJob<MbtilesInspection>("mbtiles-inspect", { path: tmp.path }, { timeoutMs: 60_000, maxMemoryMb: 128 }, `Checking ${filename ?? "the package"}`);
     } catch (err) {
-      if (err instanceof MbtilesError) throw invalid(`${filename ? `${filename}: ` : ""}not a usable MBTiles package.`, { file: err.issues });
+      if (err instanceof TaskError && err.remoteName === "MbtilesError") {
+        throw invalid(`${filename ? `${filename}: ` : ""}not a usable MBTiles package.`, { file: err.issues ?? [err.message] });
+      }
       throw err;
     }
     const m = info.metadata;

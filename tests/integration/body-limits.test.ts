@@ -36,7 +36,8 @@ function meteredBody(total: number) {
   return { stream, pulled: () => sent };
 }
 
-type Handler = (req: Request, ctx: { params: Promise<Record<string, string>> }) => Promise<Response>;
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
+type Handler = (req: Request, ctx: { params: Promise<any> }) => Promise<Response>;
 async function send(handler: Handler, params: Record<string, string>, cookie: string, body: ReadableStream<Uint8Array>, headers: Record<string, string>) {
   const req = new Request("http://localhost:3000/api/x", { method: "POST", headers: { cookie, ...headers }, body, duplex: "half" } as RequestInit);
   const res = await handler(req, { params: Promise.resolve(params) });

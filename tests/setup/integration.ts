@@ -1,7 +1,7 @@
 import { mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
-import { beforeAll, vi } from "vitest";
+import { afterAll, beforeAll, vi } from "vitest";
 
 // Each integration test file gets its own SQLite file, migrated from the committed migrations.
 const dir = mkdtempSync(join(tmpdir(), "lithodex-it-"));
@@ -14,4 +14,10 @@ vi.mock("server-only", () => ({}));
 beforeAll(async () => {
   const { migrateDatabase } = await import("@/db/migrate");
   await migrateDatabase();
+});
+
+afterAll(async () => {
+  // Worker threads of the job pool (CIF, MBTiles, CSV) would keep the test worker alive.
+  const { closeWorkerPools } = await import("@/lib/workers/pool");
+  await closeWorkerPools();
 });
