@@ -42,6 +42,12 @@ export const scans = sqliteTable(
     uploadedBy: text("uploaded_by").references(() => user.id, { onDelete: "set null" }),
     signedOffBy: text("signed_off_by").references(() => user.id, { onDelete: "set null" }),
     signedOffAt: integer("signed_off_at", { mode: "timestamp_ms" }),
+    /**
+     * What the sign-off confirmed, with the whole-pattern fit it rests on (lib/dal/scan-review.ts SignOffRecord):
+     * run, Rwp/Rexp/χ², quantification method and each confirmed phase's wt% ± σ. Null before sign-off and for
+     * scans signed off before it existed.
+     */
+    signOffJson: text("sign_off_json", { mode: "json" }).$type<Record<string, unknown>>(),
     createdAt: createdAt(),
   },
   (t) => [
@@ -144,10 +150,21 @@ export const phaseResults = sqliteTable(
     referencePhaseId: text("reference_phase_id")
       .notNull()
       .references(() => referencePhases.id, { onDelete: "restrict" }),
+    /** Rank in the peak-list search (null when the search did not list the phase). */
     rank: integer("rank"),
     score: real("score"),
     confident: integer("confident", { mode: "boolean" }).notNull().default(false),
+    /** Whole-pattern weight % (Hill & Howard) for fitted phases; null otherwise. */
     wtPercent: real("wt_percent"),
+    /** Standard uncertainty of wt_percent. */
+    wtSigma: real("wt_sigma"),
+    /** Selected by the whole-pattern fit of this run (the deciding step); still a candidate until signed off. */
+    fitted: integer("fitted", { mode: "boolean" }).notNull().default(false),
+    /**
+     * The fit's account of the phase (lib/jobs/analyse-scan.ts StoredFit): scale, profile parameters, RIR
+     * cross-check, evidence (stand-alone lines, share of the profile, ΔBIC) and look-alike phases. Null unless fitted.
+     */
+    fitJson: text("fit_json", { mode: "json" }).$type<Record<string, unknown>>(),
     matchedJson: text("matched_json", { mode: "json" }).$type<unknown[]>(),
     source: text("source", { enum: ["auto", "manual"] }).notNull().default("auto"),
     status: text("status", { enum: PHASE_STATUSES }).notNull().default("candidate"),
