@@ -34,8 +34,7 @@ const inLibrary = entries.filter((e) => findLibraryPhase(e.mineral));
 
 // Known disagreements, reported to the CIF owners. Each runs as an expected failure: when the CIF is fixed the
 // test starts passing, `test.fails` then reports it, and the entry must be removed.
-// (illite was removed from the library: its idealised 1M model did not reproduce the 10 Å line; muscovite-2M1
-// stands in for illite/sericite until a published illite structure is added.)
+// (illite is back as a 1M model on the Drits et al. 2010 layer; its lines are in handbook-library-additions.json.)
 const KNOWN_DISCREPANCIES: Record<string, string> = {};
 
 function checkEntry(entry: HandbookEntry): void {

@@ -19,6 +19,9 @@ const REQUIRED = [
   "orthoclase", "microcline", "sanidine", "albite", "anorthite", "muscovite", "phlogopite", "kaolinite",
   "clinochlore", "talc", "lizardite", "chrysotile", "tremolite", "actinolite", "forsterite", "enstatite", "diopside",
   "augite", "almandine", "grossular", "epidote", "titanite", "alunite", "jarosite",
+  // whole-pattern issue, library section: clays, chlorites, plagioclase members, epidote group, hornblende
+  "illite", "montmorillonite", "chamosite", "vermiculite", "clinozoisite", "hornblende", "oligoclase", "andesine",
+  "labradorite",
 ];
 // Tourmaline-group members (IMA): any one of them satisfies "a tourmaline-group member".
 const TOURMALINES = ["dravite", "schorl", "elbaite", "uvite", "foitite"];
