@@ -151,6 +151,30 @@ describe("CIF import", () => {
     expect((await loadReferenceLibrary()).some((p) => p.id === imp.id)).toBe(true);
   });
 
+  test("fit data (V, ZM, absolute scale, texture) is stored at import and by the seed, and reaches the identifier's library", async () => {
+    // gemmi fixture of sylvite: V, W and the absolute m|F|²Lp of the strongest line (Cu Kα1, same Lp as ours)
+    const fx = JSON.parse(readFileSync("tests/fixtures/gemmi/sylvite.json", "utf8")) as { volume: number; cell_mass: number; strongest_absolute: number };
+    const text = renamed(SYLVITE, "sylvite fit").replace("data_", "# lithodex-texture: 1 0 0\n# lithodex-broadening: none\ndata_");
+    const r = await importAs(w.cookies.lab_analyst, [{ name: "sylvite-fit.cif", text }]);
+    expect(r.status).toBe(201);
+    const imp = r.json.imported[0];
+    // the bad tag is reported, not fatal
+    expect(imp.warnings.join(" ")).toMatch(/lithodex-broadening/);
+    const [row] = await getDb().select({ fit: referencePhases.fitJson }).from(referencePhases).where(eq(referencePhases.id, imp.id));
+    expect(row.fit!.cellVolume / fx.volume).toBeCloseTo(1, 5);
+    expect(row.fit!.cellMass / fx.cell_mass).toBeCloseTo(1, 3);
+    expect(Math.abs(row.fit!.absoluteScale / fx.strongest_absolute - 1)).toBeLessThan(1e-3);
+    expect(row.fit!.texture).toEqual([1, 0, 0]);
+    const pattern = (await loadReferenceLibrary()).find((p) => p.id === imp.id)!;
+    expect(pattern.absoluteScale).toBe(row.fit!.absoluteScale);
+    expect(pattern.texture).toEqual([1, 0, 0]);
+    // shipped rows: the seed writes library.json's values
+    const shipped = LIBRARY_PHASES.find((p) => p.id === "muscovite")!;
+    const [m] = await getDb().select({ fit: referencePhases.fitJson }).from(referencePhases).where(eq(referencePhases.mineral, "muscovite"));
+    expect(m.fit).toMatchObject({ cellVolume: shipped.cellVolume, cellMass: shipped.cellMass, absoluteScale: shipped.absoluteScale, texture: [0, 0, 1] });
+    await getDb().delete(referencePhases).where(eq(referencePhases.id, imp.id)); // the later tests count imported rows
+  });
+
   test("importing the same structure twice is a per-file error; nothing usable is a 422", async () => {
     const r = await importAs(w.cookies.lab_analyst, [{ name: "again.cif", text: renamed(HALITE, "halite test") }]);
     expect(r.status).toBe(422);
