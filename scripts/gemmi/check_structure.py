@@ -1,5 +1,6 @@
 #!/usr/bin/python3
-"""Crystal-chemical sanity check of a reference CIF with gemmi (Debian python3-gemmi; NOT a pyenv/venv python).
+"""Crystal-chemical sanity check of a reference CIF with gemmi (Debian python3-gemmi and python3-numpy; NOT a
+pyenv/venv python).
 
     /usr/bin/python3 scripts/gemmi/check_structure.py lib/science/minerals/cif/gypsum.cif [more.cif ...]
 

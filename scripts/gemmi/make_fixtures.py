@@ -1,7 +1,8 @@
 #!/usr/bin/python3
 """Independent reference patterns computed with gemmi, for the crystal-module tests.
 
-Rerun (from the repository root, with Debian's python3-gemmi 0.5.7; NOT a pyenv/venv python):
+Rerun (from the repository root, with Debian's python3-gemmi 0.5.7 and python3-numpy, which gemmi needs for
+make_miller_array but does not pull in; NOT a pyenv/venv python):
 
     /usr/bin/python3 scripts/gemmi/make_fixtures.py            # all CIFs
     /usr/bin/python3 scripts/gemmi/make_fixtures.py quartz     # only CIFs whose name contains "quartz"

@@ -118,6 +118,9 @@ describe("library.json fit data", () => {
     for (const id of ["calcite", "dolomite", "magnesite", "siderite", "rhodochrosite"]) expect(tex(id), id).toEqual([1, 0, 4]);
     for (const id of ["tremolite", "actinolite"]) expect(tex(id), id).toEqual([1, 1, 0]);
     expect(tex("gypsum")).toEqual([0, 1, 0]);
+    // orthoamphibole (Pnma, a doubled): {210} is the amphibole {110} cleavage, d ≈ 8.26 Å
+    expect(tex("anthophyllite")).toEqual([2, 1, 0]);
+    expect(findLibraryPhase("anthophyllite")!.lines.find((l) => l[0] === 2 && l[1] === 1 && l[2] === 0)![3]).toBeCloseTo(8.26, 1);
     // feldspars: cleavage-plane orientation is weak in powders; no texture given (common practice)
     for (const id of ["albite", "orthoclase", "microcline", "quartz"]) expect(tex(id), id).toBeUndefined();
     // the texture plane is a strong-enough reflection of the phase's own pattern where it is a basal/cleavage line
