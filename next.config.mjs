@@ -1,8 +1,20 @@
+/** Headers that never change, on every response (static files included); CSP and HSTS come from proxy.ts. */
+const securityHeaders = [
+  { key: "X-Content-Type-Options", value: "nosniff" },
+  { key: "Referrer-Policy", value: "strict-origin-when-cross-origin" },
+  { key: "X-Frame-Options", value: "DENY" },
+  { key: "Permissions-Policy", value: "geolocation=(self), camera=(self), microphone=(), payment=(), usb=(), serial=(), bluetooth=(), interest-cohort=()" },
+  { key: "Cross-Origin-Opener-Policy", value: "same-origin" },
+];
+
 /** @type {import('next').NextConfig} */
 const nextConfig = {
   // exifr loads fs/zlib dynamically, pdfkit reads its font metrics and piscina starts its worker file from their own folders: bundling breaks them.
   serverExternalPackages: ["exifr", "pdfkit", "piscina"],
   poweredByHeader: false,
+  async headers() {
+    return [{ source: "/:path*", headers: securityHeaders }];
+  },
   // A separate build folder lets browser tests build beside a running dev server.
   distDir: process.env.NEXT_DIST_DIR || ".next",
   // Types are checked by `npm run typecheck` (CI runs it); the build does not repeat it.

@@ -1,11 +1,12 @@
 import { migrate } from "drizzle-orm/libsql/migrator";
 import { fileURLToPath } from "node:url";
-import { getDb, databaseUrl } from "./index";
+import { dbReady, getDb, databaseUrl } from "./index";
 
 export const MIGRATIONS_FOLDER = fileURLToPath(new URL("./migrations", import.meta.url));
 
 /** Applies the committed drizzle-kit migrations to the configured database. */
 export async function migrateDatabase(): Promise<void> {
+  await dbReady();
   await migrate(getDb(), { migrationsFolder: MIGRATIONS_FOLDER });
 }
 

@@ -14,8 +14,11 @@ function makeAuth(db: Db) {
     emailAndPassword: { enabled: true, minPasswordLength: 8, disableSignUp: process.env.LITHODEX_OPEN_SIGNUP !== "1" },
     plugins: [admin(), nextCookies()],
     telemetry: { enabled: false },
-    // Throttles sign-in attempts per IP in production; browser tests sign in many times from one IP.
+    // Request-rate limit per client address in production (browser tests sign in many times from one address); the
+    // address is the real one, resolved in app/api/auth (proxy headers only when LITHODEX_TRUSTED_PROXY_HOPS is set).
+    // Failed sign-ins are throttled per account and address separately (lib/dal/sign-in.ts), always.
     rateLimit: { enabled: process.env.NODE_ENV === "production" && process.env.LITHODEX_AUTH_RATE_LIMIT !== "off" },
+    advanced: { ipAddress: { ipAddressHeaders: ["x-lithodex-client-ip"] } },
     trustedOrigins: (process.env.TRUSTED_ORIGINS || "http://localhost:3000,http://127.0.0.1:3000").split(","),
   });
 }

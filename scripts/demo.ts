@@ -4,11 +4,24 @@
  * server) are started by scripts/services.ts alongside.
  */
 import { spawn, spawnSync } from "node:child_process";
+import { randomBytes } from "node:crypto";
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from "node:fs";
+import { dirname, join } from "node:path";
 import { migrateDatabase } from "@/db/migrate";
 import { printDemoAccounts, seedDemo } from "@/db/seed/demo";
 import { startLocalServices } from "./services";
 
 const port = Number(process.env.PORT || 3000);
+// Production refuses to start without a session secret: the demo makes one and keeps it beside the database, so
+// sessions survive a restart of the demo.
+if (!process.env.BETTER_AUTH_SECRET) {
+  const file = join(process.env.LITHODEX_DATA_DIR ? dirname(process.env.LITHODEX_DATA_DIR) : "data", ".auth-secret");
+  if (!existsSync(file)) {
+    mkdirSync(dirname(file), { recursive: true });
+    writeFileSync(file, randomBytes(32).toString("base64"), { mode: 0o600 });
+  }
+  process.env.BETTER_AUTH_SECRET = readFileSync(file, "utf8").trim();
+}
 process.env.BETTER_AUTH_URL ||= `http://localhost:${port}`;
 process.env.NEXT_TELEMETRY_DISABLED = "1";
 

@@ -8,7 +8,7 @@ import { runJob } from "@/lib/workers/pool";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
 import { AppError } from "./errors";
-import { formatSampleCode, isUniqueViolation } from "./samples";
+import { formatSampleCode, IGSN_NOT_ACCEPTED, isUniqueViolation } from "./samples";
 import { validateInput } from "./validate";
 
 /** Largest CSV accepted, characters (≈ 20 000 rows of a full register). */
@@ -76,8 +76,12 @@ async function parseAndCheck(projectId: string, raw: unknown): Promise<Checked> 
   }
   const igsns = parse.rows.map((r) => r.sample.igsn).filter((c): c is string => !!c);
   const takenIgsn = new Set<string>();
+  const hiddenIgsn = new Set<string>();
   for (const part of chunks(igsns, 500)) {
-    for (const r of await db.select({ igsn: samples.igsn }).from(samples).where(inArray(samples.igsn, part))) if (r.igsn) takenIgsn.add(r.igsn);
+    // IGSNs are unique everywhere; one held by a project the caller cannot see is answered like an invalid value.
+    for (const r of await db.select({ igsn: samples.igsn, projectId: samples.projectId }).from(samples).where(inArray(samples.igsn, part))) {
+      if (r.igsn) (r.projectId === projectId ? takenIgsn : hiddenIgsn).add(r.igsn);
+    }
   }
   const igsnLines = new Map<string, number>();
 
@@ -87,7 +91,8 @@ async function parseAndCheck(projectId: string, raw: unknown): Promise<Checked> 
     const { code, igsn } = row.sample;
     if (code && taken.has(code)) rowErrors.push({ line: row.line, column: colOf("code"), field: "code", message: `Sample code ${code} is already used in this project.` });
     if (igsn) {
-      if (takenIgsn.has(igsn)) rowErrors.push({ line: row.line, column: colOf("igsn"), field: "igsn", message: `IGSN ${igsn} is already registered to another sample.` });
+      if (takenIgsn.has(igsn)) rowErrors.push({ line: row.line, column: colOf("igsn"), field: "igsn", message: `IGSN ${igsn} is already registered to another sample in this project.` });
+      else if (hiddenIgsn.has(igsn)) rowErrors.push({ line: row.line, column: colOf("igsn"), field: "igsn", message: IGSN_NOT_ACCEPTED });
       else if (igsnLines.has(igsn)) rowErrors.push({ line: row.line, column: colOf("igsn"), field: "igsn", message: `IGSN ${igsn} is already used on line ${igsnLines.get(igsn)} of this file.` });
       else igsnLines.set(igsn, row.line);
     }
@@ -181,7 +186,7 @@ export async function commitSampleImport(actor: Actor, projectId: string, raw: u
     if (isUniqueViolation(err, "samples.code")) {
       throw new AppError("conflict", "A sample code in the file was taken by another import or a code issued from the sequence; nothing was imported. Preview again.");
     }
-    if (isUniqueViolation(err, "samples.igsn")) throw new AppError("conflict", "An IGSN in the file was registered meanwhile; nothing was imported. Preview again.");
+    if (isUniqueViolation(err, "samples.igsn")) throw new AppError("validation_failed", "An IGSN in the file is not accepted; nothing was imported. Preview again.");
     throw err;
   }
 }

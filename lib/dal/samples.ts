@@ -1,11 +1,11 @@
 import "server-only";
 import { and, asc, count, desc, eq, gte, lt, or, sql, type AnyColumn, type SQL } from "drizzle-orm";
 import { getDb } from "@/db";
-import { projects, samples, stations } from "@/db/schema";
+import { projectMembers, projects, samples, stations } from "@/db/schema";
 import { sampleCreateSchema, samplePatchSchema, type SampleListQuery } from "@/lib/validation/sample";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
-import { conflict, invalid, notFound } from "./errors";
+import { conflict, invalid, notFound, type AppError } from "./errors";
 import { validateInput } from "./validate";
 
 export type SampleRow = typeof samples.$inferSelect;
@@ -148,9 +148,31 @@ export async function createSample(actor: Actor, projectId: string, raw: unknown
     if (isUniqueViolation(err, "samples.code")) {
       throw conflict(`Sample code ${input.code} is already used in this project.`, { field: "code" });
     }
-    if (isUniqueViolation(err, "samples.igsn")) throw conflict("That IGSN is already registered to another sample.", { field: "igsn" });
+    if (isUniqueViolation(err, "samples.igsn")) throw await igsnTaken(actor, input.igsn ?? null);
     throw err;
   }
+}
+
+/** The answer for an IGSN that is not accepted, the same whether it is malformed or registered where the caller cannot see. */
+export const IGSN_NOT_ACCEPTED = "This IGSN is not accepted; check it against the IGSNs allocated to your project.";
+
+/**
+ * A unique-index hit on the IGSN: 409 naming the sample when the caller can see the project that holds it, otherwise
+ * the same 422 as an invalid value, so that IGSNs of other projects stay invisible (no existence oracle).
+ */
+async function igsnTaken(actor: Actor, igsn: string | null): Promise<AppError> {
+  if (igsn) {
+    const [holder] = await getDb().select({ projectId: samples.projectId, code: samples.code }).from(samples).where(eq(samples.igsn, igsn)).limit(1);
+    if (holder) {
+      const member = await getDb()
+        .select({ userId: projectMembers.userId })
+        .from(projectMembers)
+        .where(and(eq(projectMembers.projectId, holder.projectId), eq(projectMembers.userId, actor.userId)))
+        .limit(1);
+      if (actor.isAdmin || member.length > 0) return conflict(`That IGSN is already registered to sample ${holder.code}.`, { field: "igsn" });
+    }
+  }
+  return invalid(IGSN_NOT_ACCEPTED, { igsn: [IGSN_NOT_ACCEPTED] });
 }
 
 /**
@@ -188,7 +210,7 @@ export async function updateSample(actor: Actor, projectId: string, sampleId: st
     if (isUniqueViolation(err, "samples.code")) {
       throw conflict(`Sample code ${changes.code} is already used in this project.`, { field: "code" });
     }
-    if (isUniqueViolation(err, "samples.igsn")) throw conflict("That IGSN is already registered to another sample.", { field: "igsn" });
+    if (isUniqueViolation(err, "samples.igsn")) throw await igsnTaken(actor, changes.igsn ?? null);
     throw err;
   }
 }

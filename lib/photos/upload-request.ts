@@ -1,4 +1,5 @@
 /** Reads the files of a multipart photo upload from a web Request, refusing oversize bodies before buffering them. */
+import { cleanFileName } from "@/lib/storage/file-name";
 import { MAX_PHOTO_BYTES, PhotoError } from "./errors";
 
 export interface UploadedFile {
@@ -56,7 +57,7 @@ export async function readUploadFiles(req: Request, options: ReadUploadOptions =
   for (const field of fields) {
     for (const entry of form.getAll(field)) {
       if (typeof entry === "string") continue;
-      const name = entry.name || "photo";
+      const name = cleanFileName(entry.name || "photo", "photo");
       if (entry.size > maxFileBytes) {
         throw new PhotoError("too_large", `${name} is ${(entry.size / 1024 / 1024).toFixed(1)} MB; photos may be at most ${(maxFileBytes / 1024 / 1024).toFixed(1)} MB. Export a smaller JPEG and try again.`);
       }

@@ -96,10 +96,10 @@ const seconds = (ms: number) => (ms >= 10_000 ? `${Math.round(ms / 1000)} s` : `
 export async function runJob<T = unknown>(task: TaskName, input: unknown, limits: JobLimits = {}, label: string = task): Promise<T> {
   const { timeoutMs, maxMemoryMb } = { ...DEFAULT_LIMITS, ...limits };
   const pool = poolFor(maxMemoryMb);
-  const module = pathToFileURL(join(root(), TASKS[task])).href;
+  const moduleUrl = pathToFileURL(join(root(), TASKS[task])).href;
   let out: { ok: true; value: T } | { ok: false; error: { name: string; message: string; code?: string; line?: number; field?: string; issues?: string[] } };
   try {
-    out = await pool.run({ task, module, input }, { signal: AbortSignal.timeout(timeoutMs) });
+    out = await pool.run({ task, module: moduleUrl, input }, { signal: AbortSignal.timeout(timeoutMs) });
   } catch (err) {
     const e = err as { name?: string; code?: string; message?: string };
     if (e?.name === "AbortError" || e?.name === "TimeoutError") {

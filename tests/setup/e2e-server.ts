@@ -1,4 +1,5 @@
 import { spawn, spawnSync, type ChildProcess } from "node:child_process";
+import { randomBytes } from "node:crypto";
 import { mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
@@ -28,6 +29,8 @@ export default async function setup(project: TestProject) {
     BETTER_AUTH_URL: baseUrl,
     NODE_ENV: "production" as const,
     LITHODEX_AUTH_RATE_LIMIT: "off",
+    // production refuses to start without a session secret (instrumentation.ts)
+    BETTER_AUTH_SECRET: process.env.BETTER_AUTH_SECRET || randomBytes(32).toString("base64"),
   };
   const run = (cmd: string, args: string[]) => {
     const r = spawnSync(cmd, args, { env, stdio: "inherit" });

@@ -1,6 +1,7 @@
 import "server-only";
 import { readError } from "@/lib/api/body";
 import { AppError } from "@/lib/dal/errors";
+import { cleanFileName } from "@/lib/storage/file-name";
 import type { UploadedFile } from "@/lib/dal/scans";
 
 /** Text fields and files of a multipart/form-data request (files under any field name, in order). */
@@ -24,7 +25,8 @@ export async function readMultipart(req: Request, fileFields: readonly string[] 
     } else if (fileFields.includes(name)) {
       // Browsers send an empty, nameless part when no file was chosen.
       if (value.size === 0 && !value.name) continue;
-      files.push({ name: value.name || "upload", bytes: new Uint8Array(await value.arrayBuffer()) });
+      // Stored and shown names are cleaned of control and bidi characters (U+202E would disguise an extension).
+      files.push({ name: cleanFileName(value.name || "upload", "upload"), bytes: new Uint8Array(await value.arrayBuffer()) });
     }
   }
   return { fields, files };

@@ -1,6 +1,7 @@
 import { BODY_LIMITS } from "@/lib/api/body";
 import { created, withActor } from "@/lib/api/handler";
 import { AppError } from "@/lib/dal/errors";
+import { cleanFileName } from "@/lib/storage/file-name";
 import { createTilePackage, listTilePackages } from "@/lib/dal/tile-packages";
 
 // GET /api/projects/:projectId/tile-packages — the project's MBTiles map layers (any member)
@@ -14,9 +15,9 @@ export const POST = withActor<{ projectId: string }>({ permission: "tiles.manage
   const raw = req.headers.get("x-filename");
   let filename: string | null = null;
   try {
-    filename = raw ? decodeURIComponent(raw) : null;
+    filename = raw ? cleanFileName(decodeURIComponent(raw)) : null;
   } catch {
-    filename = raw;
+    filename = raw ? cleanFileName(raw) : null;
   }
   return created(await createTilePackage(actor, params.projectId, { body: req.body, filename }));
 });

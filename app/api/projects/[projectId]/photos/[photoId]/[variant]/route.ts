@@ -1,15 +1,11 @@
 import { withActor } from "@/lib/api/handler";
 import { readPhotoVariant } from "@/lib/dal/photos";
 import { notFound } from "@/lib/dal/errors";
+import { contentDisposition } from "@/lib/storage/file-name";
 import { PHOTO_VARIANTS, type PhotoVariantName } from "@/lib/validation/photo";
 
 type P = { projectId: string; photoId: string; variant: string };
 
-/** RFC 6266 attachment name: ASCII fallback plus UTF-8 filename*. */
-function disposition(name: string): string {
-  const ascii = name.replace(/[^\x20-\x7e]|["\\]/g, "_");
-  return `inline; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(name)}`;
-}
 
 // GET /api/projects/:projectId/photos/:photoId/:variant — bytes of original | thumb | display, cached privately, ETag/304 (any member)
 export const GET = withActor<P>(async ({ actor, params, req }) => {
@@ -21,7 +17,7 @@ export const GET = withActor<P>(async ({ actor, params, req }) => {
     // Photo bytes never change under an id; private because access depends on project membership.
     "cache-control": "private, max-age=31536000, immutable",
     "x-content-type-options": "nosniff",
-    "content-disposition": disposition(v.fileName),
+    "content-disposition": contentDisposition(v.fileName, "inline"),
   });
   if (req.headers.get("if-none-match") === v.etag) return new Response(null, { status: 304, headers });
   headers.set("content-length", String(v.size));
