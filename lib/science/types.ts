@@ -24,6 +24,14 @@ export interface ScanMeta {
   sampleId?: string;
   /** Other key/value settings found in the file (kV, mA, slits, step time…). */
   settings: Record<string, string | number>;
+  /**
+   * Unit of `counts` after reading: "counts" (detector counts, also after converting counts per second with a
+   * known counting time) or "cps" (counts per second left as given because no counting time was known).
+   * Undefined when the file does not say (counts assumed).
+   */
+  intensityUnit?: "counts" | "cps";
+  /** What the reader assumed or converted (unrecognised column names read by position, cps → counts, d → 2θ…). */
+  warnings?: string[];
 }
 
 /** A fitted peak of a processed scan. */

@@ -17,7 +17,9 @@ export type ScanParseErrorCode =
   | "UNKNOWN_FORMAT"
   | "CIF_SYNTAX"
   | "CIF_NO_DATA"
-  | "CIF_INCONSISTENT";
+  | "CIF_INCONSISTENT"
+  | "NEEDS_WAVELENGTH"
+  | "D_OUT_OF_RANGE";
 
 /** Details attached to a {@link ScanParseError}. */
 export interface ScanParseErrorDetails {

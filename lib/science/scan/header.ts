@@ -45,6 +45,11 @@ export function applyHeaderPair(meta: ScanMeta, rawKey: string, rawValue: string
     const a = parseAnode(value);
     if (a) meta.anode = a;
     else setSetting(meta, key, value);
+  } else if (/^(intensity|y|count|counts|data)?units?$|^(intensity|y)unit(s)?$/.test(compact)) {
+    const u = value.toLowerCase().replace(/\s+/g, "");
+    if (/^(cps|counts?\/s(ec)?|cts\/s(ec)?|c\/s|1\/s|counts?persec(ond)?)$/.test(u)) meta.intensityUnit = "cps";
+    else if (/^(counts?|cts)$/.test(u)) meta.intensityUnit = "counts";
+    setSetting(meta, "intensityUnit", value);
   } else if (/^(instrument|diffractometer|device)$/.test(compact)) {
     meta.instrument = value.slice(0, 200);
   } else if (/^(sample|sampleid|sampleno|specimen|samplename)$/.test(compact)) {
@@ -59,7 +64,7 @@ function canonicalSettingKey(compact: string): string | undefined {
   if (/^(kv|voltage|tension|generatorvoltage)$/.test(compact)) return "kV";
   if (/^(ma|current|generatorcurrent)$/.test(compact)) return "mA";
   if (/^(step|stepsize|stepwidth|increment|inc)$/.test(compact)) return "step";
-  if (/^(time|timeperstep|steptime|counttime|countingtime)$/.test(compact)) return "timePerStep";
+  if (/^(time|timeperstep|steptime|counttime|countingtime|countingtimeperstep|stepcounttime)(s|sec|seconds)?$/.test(compact)) return "timePerStep";
   return undefined;
 }
 
@@ -81,7 +86,18 @@ function leadingNumberWithUnit(value: string): number | undefined {
  * @returns true if it was a key/value line
  */
 export function applyHeaderLine(meta: ScanMeta, text: string): boolean {
-  const m = KV.exec(text.trim());
+  const trimmed = text.trim();
+  // Several pairs on one line, set apart by wide gaps: "Anode: Cu   K-Alpha1: 1.540562 A   K-Alpha2: 1.544390 A".
+  const parts = trimmed.split(/\t+|\s{2,}/);
+  if (parts.length >= 2) {
+    const pairs = parts.map((part) => KV.exec(part));
+    if (pairs.every((p) => p !== null)) {
+      let any = false;
+      for (const p of pairs) any = applyHeaderPair(meta, (p as RegExpExecArray)[1], (p as RegExpExecArray)[2]) || any;
+      return any;
+    }
+  }
+  const m = KV.exec(trimmed);
   if (!m) return false;
   return applyHeaderPair(meta, m[1], m[2]);
 }

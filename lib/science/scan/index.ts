@@ -4,5 +4,6 @@ export { ScanParseError, type ScanParseErrorCode, type ScanParseErrorDetails } f
 export { detectFormat, type ScanFormat, type DetectedFormat } from "./detect";
 export { parseXy } from "./parse-xy";
 export { parseCsv, type CsvSeparator } from "./parse-csv";
+export { classifyColumnName, mapColumns, type ColumnName, type ColumnRole, type ColumnMap } from "./columns";
 export { parsePdCif } from "./parse-pdcif";
 export { writeXy, writeCsv, writePdCif, type WriteScanOptions } from "./write-scan";

@@ -38,6 +38,41 @@ function isDecimal(s: string, decimalComma: boolean): boolean {
   return i > start;
 }
 
+/** Exact powers of ten 10⁰…10²² (every one is a double). */
+const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
+
+/**
+ * Fast path for the usual cell, `[-]digits[.digits]` with at most 15 significant digits and no exponent: the digits
+ * as an integer (exact below 2⁵³) divided by an exact power of ten — one correctly rounded operation, so the result
+ * equals `Number(s)`. Anything else returns NaN and goes the general way.
+ */
+function plainDecimal(s: string, decimalComma: boolean): number {
+  const n = s.length;
+  if (n === 0 || n > 17) return NaN;
+  let i = 0;
+  let neg = false;
+  let c = s.charCodeAt(0);
+  if (c === 45) {
+    neg = true;
+    i = 1;
+  } else if (c === 43) i = 1;
+  let mant = 0;
+  let digits = 0;
+  let frac = -1;
+  for (; i < n; i++) {
+    c = s.charCodeAt(i);
+    if (c >= 48 && c <= 57) {
+      mant = mant * 10 + (c - 48);
+      digits++;
+    } else if (frac < 0 && (c === 46 || (decimalComma && c === 44))) frac = digits;
+    else return NaN;
+  }
+  if (digits === 0 || digits > 15) return NaN;
+  const scale = frac < 0 ? 0 : digits - frac;
+  const v = scale === 0 ? mant : mant / POW10[scale];
+  return neg ? -v : v;
+}
+
 /**
  * Read one trimmed cell.
  * @param s - cell text (already trimmed)
@@ -45,6 +80,8 @@ function isDecimal(s: string, decimalComma: boolean): boolean {
  * @returns `[kind, value]`; `value` is NaN unless kind is Number
  */
 export function readCell(s: string, decimalComma = false): [CellKind, number] {
+  const fast = plainDecimal(s, decimalComma);
+  if (fast === fast) return [CellKind.Number, fast]; // not NaN
   if (s.length > 0 && isDecimal(s, decimalComma)) {
     const v = Number(decimalComma ? s.replace(",", ".") : s);
     return Number.isFinite(v) ? [CellKind.Number, v] : [CellKind.NonFinite, v];

@@ -2,6 +2,7 @@ import Papa from "papaparse";
 import type { Scan } from "@/lib/science/types";
 import { PointCollector, type ScanLimits } from "./collector";
 import { ScanParseError } from "./errors";
+import { mapColumns, type ColumnMap } from "./columns";
 import { applyHeaderLine, emptyMeta } from "./header";
 import { isCommentStart } from "./lines";
 import { CellKind, readCell } from "./numbers";
@@ -9,40 +10,13 @@ import { CellKind, readCell } from "./numbers";
 /** Field separator of a CSV scan. */
 export type CsvSeparator = "," | ";";
 
-const X_NAMES = /^(2\s*-?\s*th(eta)?|two\s*-?\s*theta|2θ|angle|2\s*theta\s*\(?(deg|°)?\)?|pos(ition)?|x)\b/i;
-const Y_NAMES = /^(counts?|intensity|int|cps|i|y|counts\s*per\s*s(econd)?|yobs|i\s*obs)\b/i;
-const E_NAMES = /^(esd|sigma|σ|s\.?u\.?|err(or)?|uncertainty|unc|dy|e)\b/i;
-
-interface Columns {
-  x: number;
-  y: number;
-  e: number;
-  names: string[];
+interface Columns extends ColumnMap {
+  headerLine?: number;
 }
 
-function columnsFromHeader(cells: string[], lineNo: number): Columns {
-  const names = cells.map((c) => c.trim());
-  const find = (re: RegExp) => names.findIndex((n) => re.test(n.replace(/^["']|["']$/g, "")));
-  let x = find(X_NAMES);
-  let y = find(Y_NAMES);
-  let e = find(E_NAMES);
-  if (x < 0 && y < 0) {
-    // Unrecognised names: take the first columns in order, but only if that is unambiguous.
-    if (names.length > 3) {
-      throw new ScanParseError(
-        "TOO_MANY_COLUMNS",
-        `${names.length} columns and no column named like 2θ/counts; expected 2θ, counts and optional esd`,
-        { line: lineNo },
-      );
-    }
-    x = 0;
-    y = 1;
-    e = names.length === 3 ? 2 : -1;
-  }
-  if (x < 0) throw new ScanParseError("TOO_FEW_COLUMNS", "no 2θ column in the header", { line: lineNo, field: "twoTheta" });
-  if (y < 0) throw new ScanParseError("TOO_FEW_COLUMNS", "no counts/intensity column in the header", { line: lineNo, field: "counts" });
-  if (e === x || e === y) e = -1;
-  return { x, y, e, names };
+function fieldName(c: Columns, index: number, fallback: string): string {
+  const name = c.names[index];
+  return name ? name.trim().replace(/^["']|["']$/g, "") : fallback;
 }
 
 /**
@@ -82,8 +56,9 @@ export function parseCsv(text: string, separator: CsvSeparator, limits: ScanLimi
       }
       if (kind === CellKind.NotNumeric) {
         if (cols === null && cells.length >= 2) {
-          cols = columnsFromHeader(cells, lineNo);
+          cols = { ...mapColumns(cells.map((c) => c.trim()), lineNo), headerLine: lineNo };
           meta.settings.columns = cols.names.join(separator);
+          if (cols.warning) (meta.warnings ??= []).push(cols.warning);
         } else {
           applyHeaderLine(meta, trimmedRow);
         }
@@ -103,7 +78,7 @@ export function parseCsv(text: string, separator: CsvSeparator, limits: ScanLimi
             column: 4,
           });
         }
-        cols = { x: 0, y: 1, e: cells.length === 3 ? 2 : -1, names: [] };
+        cols = { x: 0, y: 1, e: cells.length === 3 ? 2 : -1, t: -1, xIsD: false, names: [] };
       }
       dataStarted = true;
     }
@@ -137,10 +112,11 @@ export function parseCsv(text: string, separator: CsvSeparator, limits: ScanLimi
       }
       return v;
     };
-    const x = read(c.x, "twoTheta");
+    const x = read(c.x, c.xIsD ? "d" : "twoTheta");
     const y = read(c.y, "counts");
     const e = c.e >= 0 ? read(c.e, "esd") : NaN;
-    points.push(x, y, e, lineNo);
+    const t = c.t >= 0 ? read(c.t, "time") : NaN;
+    points.push(x, y, e, lineNo, t);
   };
 
   Papa.parse<string[]>(text, {
@@ -166,5 +142,17 @@ export function parseCsv(text: string, separator: CsvSeparator, limits: ScanLimi
     },
   });
   if (failure) throw failure;
-  return points.finish(meta);
+  const c = cols as Columns | null;
+  if (!c) return points.finish(meta);
+  return points.finish(meta, {
+    x: fieldName(c, c.x, c.xIsD ? "d" : "twoTheta"),
+    y: fieldName(c, c.y, "counts"),
+    e: fieldName(c, c.e, "esd"),
+    t: fieldName(c, c.t, "time"),
+    xIsD: c.xIsD,
+    xColumn: c.x + 1,
+    headerLine: c.headerLine,
+    ...(c.xScale ? { xScale: c.xScale } : {}),
+    ...(c.yUnit ? { yUnit: c.yUnit } : {}),
+  });
 }

@@ -1,4 +1,5 @@
-import type { Scan } from "@/lib/science/types";
+import type { Anode, Scan } from "@/lib/science/types";
+import { wavelengthsFor } from "@/lib/science/anodes";
 import { ScanParseError } from "./errors";
 import { detectFormat, type ScanFormat } from "./detect";
 import { parseCsv, type CsvSeparator } from "./parse-csv";
@@ -29,6 +30,16 @@ export interface ParseScanOptions {
    * @default 50
    */
   minPoints?: number;
+  /**
+   * Wavelength (Å) for reading a d column as 2θ, used only when the file gives neither a wavelength nor an anode.
+   */
+  wavelength?: number;
+  /** Anode whose Kα1 converts a d column to 2θ when the file does not say (after `wavelength`). */
+  anode?: Anode;
+  /**
+   * Counting time per step (s) for turning counts per second into counts, used only when the file gives none.
+   */
+  countingTimeS?: number;
 }
 
 /** Default size limit of {@link parseScan}: 50 MiB. */
@@ -40,7 +51,10 @@ export const DEFAULT_MIN_POINTS = 50;
 
 /**
  * Read a powder diffraction scan from text: plain XY/XYE, CSV (`,` or `;`, header optional) or IUCr pdCIF, with the
- * format detected from the content. Every successful result satisfies: equal array lengths ≥ `minPoints`, 2θ finite,
+ * format detected from the content. Column names are matched loosely (`2theta`, `two_theta`, `°2θ`, `d (Å)`,
+ * `Intensity [cps]`…); unknown names over two or three numeric columns are read by position with a warning. A d
+ * column becomes 2θ (Bragg's law, with the file's wavelength or `options.wavelength`), counts per second become
+ * counts when the counting time is known. What was assumed or converted is listed in `meta.warnings`. Every successful result satisfies: equal array lengths ≥ `minPoints`, 2θ finite,
  * strictly increasing, inside (0, 180)°; counts and esd finite and ≥ 0. Time and memory are linear in the text size.
  * @param text - whole file content (decode bytes outside lib/science)
  * @returns the scan with the metadata found in the file
@@ -65,7 +79,8 @@ export function parseScan(text: string, options: ParseScanOptions = {}): Scan {
   if (body.includes("\u0000")) {
     throw new ScanParseError("UNKNOWN_FORMAT", "binary content (NUL bytes); export the scan as XY, CSV or pdCIF text");
   }
-  const limits = { maxPoints, minPoints };
+  const wavelength = options.wavelength ?? (options.anode ? wavelengthsFor(options.anode).kAlpha1 : undefined);
+  const limits = { maxPoints, minPoints, wavelength, countingTimeS: options.countingTimeS };
   const detected = format === "auto" ? detectFormat(body) : { format, separator };
   try {
     switch (detected.format) {

@@ -6,7 +6,7 @@ import * as signal from "@/lib/science/signal";
 // removal or rename shows up here in review.
 test("scan exports", () => {
   expect(Object.keys(scan).sort()).toEqual(
-    ["DEFAULT_MAX_BYTES", "DEFAULT_MAX_POINTS", "DEFAULT_MIN_POINTS", "ScanParseError", "detectFormat", "parseCsv", "parsePdCif", "parseScan", "parseXy", "writeCsv", "writePdCif", "writeXy"].sort(),
+    ["DEFAULT_MAX_BYTES", "DEFAULT_MAX_POINTS", "DEFAULT_MIN_POINTS", "ScanParseError", "classifyColumnName", "detectFormat", "mapColumns", "parseCsv", "parsePdCif", "parseScan", "parseXy", "writeCsv", "writePdCif", "writeXy"].sort(),
   );
   expect(scan.DEFAULT_MAX_BYTES).toBe(50 * 1024 * 1024);
   expect(scan.DEFAULT_MAX_POINTS).toBe(2_000_000);
@@ -18,9 +18,11 @@ test("signal exports", () => {
       "correctClippingBias",
       "correctTwoTheta",
       "countingVariance",
+      "detectKAlpha2",
       "detectPeaks",
       "displacementShift",
       "fitPeaks",
+      "fitPeaksInWindow",
       "kAlpha2Separation",
       "kAlpha2SeparationApprox",
       "processScan",
