@@ -44,13 +44,7 @@ export function snipBackground(y: ArrayLike<number>, options: SnipOptions = {}):
   let w = new Float64Array(n);
   const m = Math.min(iterations, Math.floor((n - 1) / 2));
   for (let k = 1; k <= m; k++) {
-    const p = decreasing ? m + 1 - k : k;
-    for (let i = 0; i < p; i++) w[i] = v[i];
-    for (let i = n - p; i < n; i++) w[i] = v[i];
-    for (let i = p; i < n - p; i++) {
-      const a = 0.5 * (v[i - p] + v[i + p]);
-      w[i] = a < v[i] ? a : v[i];
-    }
+    clipPass(v, w, decreasing ? m + 1 - k : k);
     const t = v;
     v = w;
     w = t;
@@ -63,6 +57,18 @@ export function snipBackground(y: ArrayLike<number>, options: SnipOptions = {}):
     } else out[i] = v[i];
   }
   return out;
+}
+
+/** One SNIP pass with window p: `dst_i = min(src_i, (src_{i−p} + src_{i+p})/2)`, ends copied. */
+function clipPass(src: Float64Array, dst: Float64Array, p: number): void {
+  const n = src.length;
+  dst.set(src.subarray(0, p), 0);
+  dst.set(src.subarray(n - p), n - p);
+  for (let i = p; i < n - p; i++) {
+    const a = 0.5 * (src[i - p] + src[i + p]);
+    const b = src[i];
+    dst[i] = a < b ? a : b;
+  }
 }
 
 /** Options of {@link correctClippingBias}. */

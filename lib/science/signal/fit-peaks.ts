@@ -204,6 +204,41 @@ export function fitPeaks(
   return { peaks, model };
 }
 
+/** Result of {@link fitPeaksInWindow}. */
+export interface WindowFit {
+  peaks: Omit<FittedPeak, "group">[];
+  /** Model over the window (peaks + local baseline), one value per point of [lo, hi). */
+  model: Float64Array;
+  /** Weighted χ² at the minimum. */
+  chi2: number;
+  /** Points minus free parameters. */
+  dof: number;
+  /** Points in the window. */
+  points: number;
+  /** Free parameters. */
+  parameters: number;
+}
+
+/**
+ * Fit the given peaks together over a fixed window of points [lo, hi) (same model and method as {@link fitPeaks}),
+ * for comparing models on the same data, e.g. a Kα1+Kα2 doublet against a singlet.
+ */
+export function fitPeaksInWindow(
+  twoTheta: ArrayLike<number>,
+  net: ArrayLike<number>,
+  variance: ArrayLike<number>,
+  guesses: PeakGuess[],
+  lo: number,
+  hi: number,
+  options: FitPeaksOptions = {},
+): WindowFit {
+  const { maxIterations = 60, baseline = "linear", eta = "fit", doublet = null, minFwhmDeg = 0.005, maxFwhmDeg = 3 } = options;
+  const sorted = guesses.map((g) => ({ ...g, fwhm: Math.min(maxFwhmDeg, Math.max(minFwhmDeg, g.fwhm)) })).sort((a, b) => a.twoTheta - b.twoTheta);
+  const res = fitGroup(twoTheta, net, variance, { guesses: sorted, lo, hi }, { maxIterations, baseline, eta, doublet, minFwhmDeg, maxFwhmDeg });
+  const nb = baseline === "linear" ? 2 : baseline === "constant" ? 1 : 0;
+  return { ...res, points: hi - lo, parameters: sorted.length * (eta === "fit" ? 4 : 3) + nb };
+}
+
 function splitGroup(g: PeakGuess[], max: number): PeakGuess[][] {
   if (g.length <= max) return [g];
   let cut = 1;
@@ -521,7 +556,10 @@ function fitGroup(
 
   let chi2 = evaluate(par, model, jac);
   buildNormal();
+  // Damping λ on the diagonal of JᵀWJ (Marquardt scaling), updated from the gain ratio ρ = actual / predicted χ²
+  // decrease (Nielsen 1999; Madsen, Nielsen & Tingleff 2004, eq. 3.14): fewer rejected steps than fixed factors.
   let lambda = 1e-3;
+  let nu = 2;
   let converged = false;
   const trial = new Float64Array(npar);
   const act = new Int32Array(p);
@@ -550,28 +588,38 @@ function fitGroup(
         mat[r * nFree + r] += lambda * a[u * p + u] + 1e-12 * maxDiag + 1e-300;
       }
       if (!choleskyFactor(mat, nFree, chol)) {
-        lambda *= 10;
+        lambda *= nu;
+        nu *= 2;
         continue;
       }
       choleskySolve(chol, rhs, nFree, delta);
+      // Predicted decrease of χ² for the step: δᵀ(λ·diag·δ + g).
+      let predicted = 0;
+      for (let r = 0; r < nFree; r++) {
+        const u = act[r];
+        predicted += delta[r] * (lambda * a[u * p + u] * delta[r] + g[u]);
+      }
       trial.set(par);
       for (let r = 0; r < nFree; r++) trial[free[act[r]]] += delta[r];
       clamp(trial);
       const c2 = evaluate(trial, modelTrial, jacTrial);
       if (c2 < chi2) {
-        // Converged when χ² falls by far less than one unit of (noise-scaled) χ²: parameter changes ≪ 1σ.
         const drop = chi2 - c2;
+        const rho = predicted > 0 ? drop / predicted : 1;
         par.set(trial);
         [model, modelTrial] = [modelTrial, model];
         [jac, jacTrial] = [jacTrial, jac];
         chi2 = c2;
         buildNormal();
-        lambda = Math.max(lambda / 5, 1e-9);
+        lambda = Math.max(lambda * Math.max(1 / 3, 1 - (2 * rho - 1) ** 3), 1e-9);
+        nu = 2;
         improved = true;
+        // Converged when χ² falls by far less than one unit of (noise-scaled) χ²: parameter changes ≪ 1σ.
         if (drop < 1e-3 * Math.max(1, chi2 / Math.max(1, m - p))) converged = true;
         break;
       }
-      lambda *= 4;
+      lambda *= nu;
+      nu *= 2;
     }
     if (!improved) converged = true; // no downhill step left: at a (possibly bounded) minimum
   }

@@ -6,6 +6,7 @@ import { correctTwoTheta } from "./corrections";
 import { detectPeaks, type DetectPeaksOptions } from "./detect-peaks";
 import { fitPeaks, type FittedPeak } from "./fit-peaks";
 import { stripKAlpha2 } from "./kalpha2";
+import { detectKAlpha2 } from "./kalpha2-detect";
 import { countingVariance } from "./noise";
 import { pseudoVoigtArea } from "./pseudo-voigt";
 import { scherrer } from "./scherrer";
@@ -53,7 +54,13 @@ export interface ProcessParams {
     biasCorrection?: boolean;
   };
   kAlpha2?: {
-    /** Strip Kα2 (Rachinger) and fit Kα1+Kα2 doublets; needs λ2. @default true */
+    /**
+     * Whether the scan carries Kα2: "auto" decides from the profile shape (see `detectKAlpha2`), "yes" / "no" say
+     * so. When present, Kα2 is stripped (Rachinger) for detection and Kα1+Kα2 doublets are fitted; needs λ2.
+     * @default "auto"
+     */
+    mode?: "auto" | "yes" | "no";
+    /** Older switch: `false` is the same as mode "no". */
     enabled?: boolean;
     /** I(Kα2)/I(Kα1). @default 0.5 */
     ratio?: number;
@@ -103,9 +110,28 @@ export interface ProcessParams {
 
 type DeepRequired<T> = { [K in keyof T]-?: T[K] extends object | undefined ? Required<NonNullable<T[K]>> : T[K] };
 
+/** How the Kα2 question was settled. */
+export interface ResolvedKAlpha2 {
+  /** The mode asked for. */
+  mode: "auto" | "yes" | "no";
+  /** Kα2 stripped for detection and fitted as doublets (= Kα2 taken as present and λ2 known). */
+  enabled: boolean;
+  ratio: number;
+  /** Kα2 present in the scan: the decision (null when no Kα2 wavelength is known). */
+  present: boolean | null;
+  /**
+   * "mode": set by the caller; "profile": decided by the doublet-versus-singlet test on the peak shapes;
+   * "default": the test could not tell and Kα2 was assumed present (usual for a tube without monochromator);
+   * "no-wavelength": no Kα2 wavelength known for the radiation.
+   */
+  decidedBy: "mode" | "profile" | "default" | "no-wavelength";
+  /** Evidence of the profile test (mode "auto"): peaks compared, summed ΔBIC (positive favours Kα2) and where. */
+  evidence?: { peaks: number; deltaBic: number; twoTheta: number[] };
+}
+
 /** The parameters actually used, every default filled in and "auto" replaced by the value chosen. */
 export interface ResolvedProcessParams
-  extends Omit<DeepRequired<ProcessParams>, "anode" | "wavelength" | "wavelength2" | "smoothing" | "background"> {
+  extends Omit<DeepRequired<ProcessParams>, "anode" | "wavelength" | "wavelength2" | "smoothing" | "background" | "kAlpha2"> {
   anode: Anode | null;
   wavelength: number;
   wavelength2: number | null;
@@ -119,9 +145,17 @@ export interface ResolvedProcessParams
     lls: boolean;
     decreasing: boolean;
     biasCorrection: boolean;
+    /** SNIP ran on block means of this many points (1 = on every point), keeping its cost linear. */
+    decimation: number;
   };
+  kAlpha2: ResolvedKAlpha2;
   /** Median 2θ step of the scan, °. */
   stepDeg: number;
+  /**
+   * Even step the smoothing and background were computed on when the scan's own steps are uneven (the results are
+   * mapped back to the measured points), else null.
+   */
+  resampledStepDeg: number | null;
 }
 
 /** Output of {@link processScan}. All arrays have the scan's length; intensities in counts. */
@@ -144,23 +178,134 @@ export interface ProcessedScan {
   scherrerAssumptions?: string;
 }
 
-function medianStep(x: Float64Array): { median: number; ratio: number } {
+/** Largest SNIP window run directly; wider windows run on block means (see `snipLinear`). */
+const SNIP_MAX_WINDOW = 40;
+/** Largest automatic Savitzky–Golay window, points: past it the filter costs more than it gains. */
+const SG_MAX_AUTO_WINDOW = 31;
+/** Largest resampling grid, as a multiple of the measured points. */
+const MAX_RESAMPLE_FACTOR = 20;
+
+interface StepInfo {
+  median: number;
+  min: number;
+  max: number;
+  /** Steps are uneven beyond rounding jitter: points drift more than half a mean step from an even grid. */
+  uneven: boolean;
+}
+
+function stepInfo(x: Float64Array): StepInfo {
   const n = x.length;
   const d = new Float64Array(n - 1);
-  for (let i = 1; i < n; i++) d[i - 1] = x[i] - x[i - 1];
-  const s = d.slice().sort();
-  const median = s[s.length >> 1];
-  return { median, ratio: s[s.length - 1] / s[0] };
+  let min = Infinity;
+  let max = -Infinity;
+  for (let i = 1; i < n; i++) {
+    const s = x[i] - x[i - 1];
+    d[i - 1] = s;
+    if (s < min) min = s;
+    if (s > max) max = s;
+  }
+  const median = d.sort()[(n - 1) >> 1];
+  const mean = (x[n - 1] - x[0]) / (n - 1);
+  let uneven = false;
+  for (let i = 1; i < n - 1 && !uneven; i++) if (Math.abs(x[i] - (x[0] + i * mean)) > 0.5 * mean) uneven = true;
+  return { median, min, max, uneven };
+}
+
+/** Linear interpolation of (x, y) at the even grid x0 + i·step, i < count (x increasing). */
+function toGrid(x: Float64Array, y: ArrayLike<number>, x0: number, step: number, count: number): Float64Array {
+  const out = new Float64Array(count);
+  const n = x.length;
+  let j = 0;
+  for (let i = 0; i < count; i++) {
+    const g = x0 + i * step;
+    while (j < n - 2 && x[j + 1] < g) j++;
+    const t = (g - x[j]) / (x[j + 1] - x[j]);
+    out[i] = y[j] + Math.min(1, Math.max(0, t)) * (y[j + 1] - y[j]);
+  }
+  return out;
+}
+
+/** Linear interpolation of a curve on the even grid x0 + i·step at the points x. */
+function fromGrid(g: Float64Array, x0: number, step: number, x: Float64Array): Float64Array {
+  const out = new Float64Array(x.length);
+  const last = g.length - 1;
+  for (let i = 0; i < x.length; i++) {
+    const u = (x[i] - x0) / step;
+    const k = Math.min(last - 1, Math.max(0, Math.floor(u)));
+    const t = Math.min(1, Math.max(0, u - k));
+    out[i] = g[k] + t * (g[k + 1] - g[k]);
+  }
+  return out;
+}
+
+/**
+ * SNIP with a window of m points in linear time: for m ≤ SNIP_MAX_WINDOW as published (cost n·m); for wider windows
+ * on means of `f` consecutive points with the window m/f (the same half-width in °2θ), interpolated back and kept
+ * at or below the signal — SNIP's own guarantee. The background varies slowly, so block means lose nothing it
+ * needs; the cost stays about n·SNIP_MAX_WINDOW whatever the step.
+ */
+function snipLinear(y: Float64Array, o: { enabled: boolean; iterations: number; lls: boolean; decreasing: boolean; decimation: number }): Float64Array {
+  const f = o.decimation;
+  if (!o.enabled || f <= 1) return snipBackground(y, o);
+  const n = y.length;
+  const nc = Math.ceil(n / f);
+  const coarse = new Float64Array(nc);
+  for (let c = 0; c < nc; c++) {
+    const a = c * f;
+    const b = Math.min(n, a + f);
+    let s = 0;
+    for (let i = a; i < b; i++) s += y[i];
+    coarse[c] = s / (b - a);
+  }
+  const bc = snipBackground(coarse, { ...o, iterations: Math.max(1, Math.round(o.iterations / f)) });
+  const out = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    // Block c is centred at index c·f + (f−1)/2.
+    const u = (i - (f - 1) / 2) / f;
+    const k = Math.min(nc - 2, Math.max(0, Math.floor(u)));
+    const t = nc > 1 ? Math.min(1, Math.max(0, u - k)) : 0;
+    const v = nc > 1 ? bc[k] + t * (bc[k + 1] - bc[k]) : bc[0];
+    out[i] = v < y[i] ? v : y[i];
+  }
+  return out;
+}
+
+/** Even grid the filters run on when the scan's steps are uneven. */
+interface WorkGrid {
+  x0: number;
+  step: number;
+  count: number;
 }
 
 /**
  * Resolve processing parameters against a scan: defaults, "auto" choices and the wavelength.
- * @throws RangeError when no wavelength can be decided (`fallbackAnode: null`) or a parameter is invalid
+ * The Kα2 decision of mode "auto" needs the profiles, so it is left open here (`present: null`) and made by
+ * {@link processScan}.
+ * @throws RangeError when no wavelength can be decided (`fallbackAnode: null`), a parameter is invalid or the steps
+ * are too uneven to resample
  */
-export function resolveProcessParams(scan: Scan, params: ProcessParams = {}): { params: ResolvedProcessParams; warnings: string[]; lambda2: number | null } {
+export function resolveProcessParams(
+  scan: Scan,
+  params: ProcessParams = {},
+): { params: ResolvedProcessParams; warnings: string[]; lambda2: number | null; grid: WorkGrid | null } {
   const warnings: string[] = [];
-  const { median: step, ratio } = medianStep(scan.twoTheta);
-  if (ratio > 1.5) warnings.push(`2θ steps are uneven (largest/smallest = ${ratio.toFixed(2)}); filters assume a constant step`);
+  const x = scan.twoTheta;
+  const n = x.length;
+  const steps = stepInfo(x);
+  const step = steps.median;
+  let grid: WorkGrid | null = null;
+  if (steps.uneven) {
+    const count = Math.floor((x[n - 1] - x[0]) / step + 1e-9) + 1;
+    if (count > MAX_RESAMPLE_FACTOR * n + 1000) {
+      throw new RangeError(
+        `2θ steps vary from ${steps.min.toPrecision(3)}° to ${steps.max.toPrecision(3)}°: resampling the scan to an even ${step.toPrecision(3)}° step would need ${count} points, more than ${MAX_RESAMPLE_FACTOR} × the ${n} measured; split the file into its even-step parts`,
+      );
+    }
+    grid = { x0: x[0], step, count };
+    warnings.push(
+      `2θ steps are uneven (${steps.min.toPrecision(3)}° to ${steps.max.toPrecision(3)}°): smoothing and background computed on an even ${step.toPrecision(3)}° grid and mapped back; peaks fitted on the measured points`,
+    );
+  }
   const fromParams = params.wavelength !== undefined || params.anode !== undefined;
   const fromFile = !fromParams && (scan.meta.wavelength !== undefined || scan.meta.anode !== undefined);
   const wl = resolveWavelength({
@@ -174,7 +319,8 @@ export function resolveProcessParams(scan: Scan, params: ProcessParams = {}): { 
   if (!(expectedFwhmDeg > 0)) throw new RangeError(`expectedFwhmDeg must be > 0, got ${expectedFwhmDeg}`);
   const sm = params.smoothing ?? {};
   let smEnabled = sm.enabled ?? true;
-  let windowSize = sm.windowSize === undefined || sm.windowSize === "auto" ? windowForFwhm(expectedFwhmDeg / step) : sm.windowSize;
+  let windowSize =
+    sm.windowSize === undefined || sm.windowSize === "auto" ? windowForFwhm(Math.min(expectedFwhmDeg / step, SG_MAX_AUTO_WINDOW)) : sm.windowSize;
   if (smEnabled && windowSize === 0) {
     smEnabled = false;
     windowSize = 5;
@@ -183,13 +329,21 @@ export function resolveProcessParams(scan: Scan, params: ProcessParams = {}): { 
   const bg = params.background ?? {};
   const halfWidthDeg = bg.halfWidthDeg ?? 0.6;
   const iterations = bg.iterations === undefined || bg.iterations === "auto" ? Math.max(1, Math.round(halfWidthDeg / step)) : bg.iterations;
+  const decimation = iterations > SNIP_MAX_WINDOW ? Math.ceil(iterations / SNIP_MAX_WINDOW) : 1;
   const k2 = params.kAlpha2 ?? {};
-  let k2Enabled = k2.enabled ?? true;
+  const mode: ResolvedKAlpha2["mode"] = k2.enabled === false ? "no" : (k2.mode ?? "auto");
+  if (mode !== "auto" && mode !== "yes" && mode !== "no") throw new RangeError(`kAlpha2.mode must be "auto", "yes" or "no", got ${String(mode)}`);
+  const ratio = k2.ratio ?? 0.5;
   const lambda2 = wl.wavelength2 ?? null;
-  if (k2Enabled && lambda2 === null) {
-    k2Enabled = false;
+  let kAlpha2: ResolvedKAlpha2;
+  if (mode === "no") kAlpha2 = { mode, enabled: false, ratio, present: false, decidedBy: "mode" };
+  else if (lambda2 === null) {
+    kAlpha2 = { mode, enabled: false, ratio, present: null, decidedBy: "no-wavelength" };
     warnings.push("no Kα2 wavelength known for this radiation: Kα2 not stripped, single lines fitted");
-  }
+  } else if (mode === "yes") kAlpha2 = { mode, enabled: true, ratio, present: true, decidedBy: "mode" };
+  else kAlpha2 = { mode, enabled: true, ratio, present: null, decidedBy: "profile" };
+  let noiseModel = params.noise?.model ?? "auto";
+  if (noiseModel === "auto" && scan.meta.intensityUnit === "cps" && !scan.esd) noiseModel = "empirical";
   const fit = params.fitting ?? {};
   const sch = params.scherrer ?? {};
   const cor = params.correction ?? {};
@@ -201,6 +355,7 @@ export function resolveProcessParams(scan: Scan, params: ProcessParams = {}): { 
     fallbackAnode: params.fallbackAnode === undefined ? "Cu" : params.fallbackAnode,
     expectedFwhmDeg,
     stepDeg: step,
+    resampledStepDeg: grid ? grid.step : null,
     smoothing: { enabled: smEnabled, windowSize, polynomial: sm.polynomial ?? 2 },
     background: {
       enabled: bg.enabled ?? true,
@@ -209,9 +364,10 @@ export function resolveProcessParams(scan: Scan, params: ProcessParams = {}): { 
       lls: bg.lls ?? true,
       decreasing: bg.decreasing ?? false,
       biasCorrection: bg.biasCorrection ?? true,
+      decimation,
     },
-    kAlpha2: { enabled: k2Enabled, ratio: k2.ratio ?? 0.5 },
-    noise: { model: params.noise?.model ?? "auto" },
+    kAlpha2,
+    noise: { model: noiseModel },
     peaks: {
       k: params.peaks?.k ?? 3,
       minProminenceSigma: params.peaks?.minProminenceSigma ?? 3,
@@ -237,7 +393,7 @@ export function resolveProcessParams(scan: Scan, params: ProcessParams = {}): { 
       broadening: sch.broadening ?? "gaussian",
     },
   };
-  return { params: resolved, warnings, lambda2: k2Enabled ? lambda2 : null };
+  return { params: resolved, warnings, lambda2, grid };
 }
 
 /**
@@ -252,11 +408,25 @@ export function resolveProcessParams(scan: Scan, params: ProcessParams = {}): { 
 export function processScan(scan: Scan, params: ProcessParams = {}): ProcessedScan {
   const n = scan.twoTheta.length;
   if (n < 7) throw new RangeError(`scan has ${n} points; at least 7 are needed`);
-  const { params: p, warnings, lambda2 } = resolveProcessParams(scan, params);
+  const resolvedAll = resolveProcessParams(scan, params);
+  const { params: p, lambda2, grid } = resolvedAll;
+  const warnings = [...(scan.meta.warnings ?? []), ...resolvedAll.warnings];
   const twoTheta = Float64Array.from(scan.twoTheta);
   const raw = Float64Array.from(scan.counts);
-  const smoothed = smoothSavitzkyGolay(raw, p.smoothing);
-  const snip = snipBackground(smoothed, p.background);
+  // Smoothing and SNIP assume an even step: on uneven scans they run on an even grid and are mapped back.
+  let smoothed: Float64Array;
+  let snip: Float64Array;
+  if (grid) {
+    const g = toGrid(twoTheta, raw, grid.x0, grid.step, grid.count);
+    const gs = smoothSavitzkyGolay(g, p.smoothing);
+    const gb = snipLinear(gs, p.background);
+    smoothed = fromGrid(gs, grid.x0, grid.step, twoTheta);
+    snip = fromGrid(gb, grid.x0, grid.step, twoTheta);
+    for (let i = 0; i < n; i++) if (snip[i] > smoothed[i]) snip[i] = smoothed[i];
+  } else {
+    smoothed = smoothSavitzkyGolay(raw, p.smoothing);
+    snip = snipLinear(smoothed, p.background);
+  }
   // Noise: variance of each raw point (counting statistics), and σ at background level after smoothing.
   const noise = countingVariance(raw, smoothed, scan.esd, p.noise);
   const gain = p.smoothing.enabled ? savitzkyGolayNoiseGain(p.smoothing.windowSize, p.smoothing.polynomial) : 1;
@@ -275,18 +445,13 @@ export function processScan(scan: Scan, params: ProcessParams = {}): ProcessedSc
     p.background.enabled && p.background.biasCorrection
       ? correctClippingBias(smoothed, snip, sigmaSmoothed).background
       : snip;
-  const stripK2 = p.kAlpha2.enabled && lambda2 !== null;
   const netSmoothed = new Float64Array(n);
   for (let i = 0; i < n; i++) netSmoothed[i] = smoothed[i] - background[i];
-  const strippedNet = stripK2
-    ? stripKAlpha2(twoTheta, netSmoothed, p.wavelength, lambda2 as number, { ratio: p.kAlpha2.ratio })
-    : netSmoothed;
-  const stripped = new Float64Array(n);
-  for (let i = 0; i < n; i++) stripped[i] = background[i] + strippedNet[i];
-
-  const stripGain = stripK2 ? Math.sqrt(1 + p.kAlpha2.ratio * p.kAlpha2.ratio) : 1;
-  // Detection σ: counting noise of the local total intensity (peak tails included), through smoothing and stripping.
-  const sigmaDetect = new Float64Array(n);
+  const rawNet = new Float64Array(n);
+  for (let i = 0; i < n; i++) rawNet[i] = raw[i] - background[i];
+  // Detection σ: counting noise of the local total intensity (peak tails included), through smoothing (and
+  // stripping, which adds the variance of the subtracted Kα2 estimate).
+  const sigmaLocal = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const v =
       noise.model === "poisson"
@@ -294,16 +459,53 @@ export function processScan(scan: Scan, params: ProcessParams = {}): ProcessedSc
         : noise.model === "empirical"
           ? noise.scale * noise.scale * Math.max(smoothed[i], background[i], 1e-12)
           : noise.variance[i];
-    sigmaDetect[i] = Math.sqrt(Math.max(v, 1e-12)) * gain * stripGain;
+    sigmaLocal[i] = Math.sqrt(Math.max(v, 1e-12)) * gain;
   }
-  const detected = detectPeaks(twoTheta, strippedNet, sigmaDetect, p.peaks);
+
+  // Kα2: decided from the peak shapes unless the caller said.
+  let unstrippedPeaks: ReturnType<typeof detectPeaks> | null = null;
+  if (p.kAlpha2.mode === "auto" && lambda2 !== null) {
+    unstrippedPeaks = detectPeaks(twoTheta, netSmoothed, sigmaLocal, p.peaks);
+    const det = detectKAlpha2(twoTheta, rawNet, noise.variance, unstrippedPeaks, p.wavelength, lambda2, { ratio: p.kAlpha2.ratio });
+    const present = det.present ?? true;
+    p.kAlpha2 = {
+      ...p.kAlpha2,
+      present,
+      enabled: present,
+      decidedBy: det.present === null ? "default" : "profile",
+      evidence: { peaks: det.peaks.length, deltaBic: Math.round(det.deltaBic * 10) / 10, twoTheta: det.peaks.map((q) => Math.round(q.twoTheta * 1000) / 1000) },
+    };
+    if (det.present === false) {
+      warnings.push(
+        `no Kα2 in the peak shapes (doublet fits worse than single lines on ${det.peaks.length} peak${det.peaks.length === 1 ? "" : "s"}): treated as a Kα1-only scan, Kα2 not stripped`,
+      );
+    } else if (det.present === null) {
+      warnings.push(
+        det.peaks.length === 0
+          ? "no isolated peak clear enough to tell whether Kα2 is present: assumed present (a tube without monochromator); set Kα2 to present or absent if known"
+          : "the peak shapes do not tell whether Kα2 is present: assumed present (a tube without monochromator); set Kα2 to present or absent if known",
+      );
+    }
+  }
+  const stripK2 = p.kAlpha2.enabled && lambda2 !== null;
+  const strippedNet = stripK2
+    ? stripKAlpha2(twoTheta, netSmoothed, p.wavelength, lambda2 as number, { ratio: p.kAlpha2.ratio })
+    : netSmoothed;
+  const stripped = new Float64Array(n);
+  for (let i = 0; i < n; i++) stripped[i] = background[i] + strippedNet[i];
+
+  let detected: ReturnType<typeof detectPeaks>;
+  if (!stripK2 && unstrippedPeaks) detected = unstrippedPeaks;
+  else {
+    const stripGain = stripK2 ? Math.sqrt(1 + p.kAlpha2.ratio * p.kAlpha2.ratio) : 1;
+    const sigmaDetect = stripGain === 1 ? sigmaLocal : sigmaLocal.map((v) => v * stripGain);
+    detected = detectPeaks(twoTheta, strippedNet, sigmaDetect, p.peaks);
+  }
 
   // Fit on the raw net counts with proper weights; Kα2 modelled as a companion line when stripping is on.
   const fitted = Float64Array.from(background);
   let fittedPeaks: FittedPeak[];
   if (p.fitting.enabled && detected.length > 0) {
-    const rawNet = new Float64Array(n);
-    for (let i = 0; i < n; i++) rawNet[i] = raw[i] - background[i];
     const res = fitPeaks(
       twoTheta,
       rawNet,
