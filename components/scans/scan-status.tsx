@@ -1,7 +1,7 @@
 import { Badge } from "@/components/ui/badge";
 import type { RunProgress, ScanStatus } from "./types";
 
-const STAGE_LABEL = { reading: "reading file", processing: "processing", identifying: "identifying phases", saving: "saving" } as const;
+const STAGE_LABEL = { reading: "reading file", processing: "processing", identifying: "ranking candidates", fitting: "fitting the whole pattern", saving: "saving" } as const;
 
 export const SCAN_STATUS_LABEL: Record<ScanStatus, string> = {
   uploaded: "Queued",

@@ -6,7 +6,7 @@ export type RunStatus = "queued" | "running" | "done" | "failed";
 export interface RunProgress {
   status: RunStatus;
   ahead?: number;
-  stage?: "reading" | "processing" | "identifying" | "saving";
+  stage?: "reading" | "processing" | "identifying" | "fitting" | "saving";
   fraction?: number;
 }
 

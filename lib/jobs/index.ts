@@ -9,6 +9,23 @@ export {
   queuedRunIds,
   type RunProgress,
 } from "./processing-queue";
-export { executeRun, processScanText, identifyProcessed, PIPELINE_VERSION, RUN_STAGES, type RunStage, type RunParams, type RunProfile, type StoredMatch } from "./process-run";
+export {
+  executeRun,
+  insertRunResults,
+  processScanText,
+  identifyProcessed,
+  PIPELINE_VERSION,
+  RUN_STAGES,
+  type PhaseRowInsert,
+  type RunStage,
+  type RunParams,
+  type RunProfile,
+  type RunFit,
+  type SparseCurve,
+  type StoredFit,
+  type StoredMatch,
+  type StoredUnexplained,
+} from "./process-run";
+export { expandSparse, fitOptionsOf, fitProcessed, phaseRowsOf, runProfileOf, unexplainedOf, quantificationLabel, type ComputedPhaseRow, type SearchRow } from "./analyse-scan";
 export { loadReferenceLibrary, invalidateReferenceLibrary, patternFromRow, type StoredLine } from "./reference-library";
 export { advanceSampleStatus, type LabStatus } from "./sample-status";

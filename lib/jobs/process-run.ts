@@ -1,110 +1,48 @@
 import { and, eq, ne } from "drizzle-orm";
-import { getDb } from "@/db";
+import { getDb, type Db } from "@/db";
 import { peaks as peaksTable, phaseResults, processingRuns, scans } from "@/db/schema";
 import { getStorage } from "@/lib/storage";
-import { identifyPhases, type IdentificationResult } from "@/lib/science/identify";
-import { parseScan } from "@/lib/science/scan";
-import { processScan, type ProcessParams, type ProcessedScan } from "@/lib/science/signal";
-import type { Peak, ReferencePattern } from "@/lib/science/types";
-import type { ProcessParamsInput } from "@/lib/validation/scan";
+import type { Peak } from "@/lib/science/types";
+import {
+  fitOptionsOf,
+  fitProcessed,
+  identifyProcessed,
+  phaseRowsOf,
+  processScanText,
+  runProfileOf,
+  searchRows,
+  unexplainedOf,
+  type ComputedPhaseRow,
+  type RunParams,
+} from "./analyse-scan";
 import { loadReferenceLibrary } from "./reference-library";
 import { advanceSampleStatus } from "./sample-status";
 
+export {
+  expandSparse,
+  identifyProcessed,
+  processScanText,
+  type RunFit,
+  type RunParams,
+  type RunProfile,
+  type SparseCurve,
+  type StoredFit,
+  type StoredMatch,
+  type StoredUnexplained,
+} from "./analyse-scan";
+
 /** Version of the processing pipeline recorded with every run. */
-export const PIPELINE_VERSION = "lithodex-xrd 0.1 (SG smoothing, SNIP, Rachinger, pseudo-Voigt, strong-line search–match, RIR)";
+export const PIPELINE_VERSION =
+  "lithodex-xrd 0.2 (SG smoothing, SNIP, Rachinger, pseudo-Voigt peak fit, strong-line search–match for the ranked list; whole-pattern fit: NNLS selection by BIC, Levenberg–Marquardt refinement, Hill & Howard wt%)";
 
 /** Stages of a run, in order; the queue reports the current one as progress. */
-export const RUN_STAGES = ["reading", "processing", "identifying", "saving"] as const;
+export const RUN_STAGES = ["reading", "processing", "identifying", "fitting", "saving"] as const;
 export type RunStage = (typeof RUN_STAGES)[number];
-
-/** What a run stores in processing_runs.params_json. */
-export interface RunParams {
-  requested: ProcessParamsInput;
-  resolved?: { processing: ProcessedScan["params"]; identify: IdentificationResult["params"] };
-}
-
-/** A matched line as stored in phase_results.matched_json. */
-export interface StoredMatch {
-  twoTheta: number;
-  d: number;
-  dRef: number;
-  intensity: number;
-  intensityRef: number;
-  hkl: [number, number, number] | null;
-}
-
-/** What a run stores in processing_runs.profile_json: the curves for the diffractogram and the identification summary. */
-export interface RunProfile {
-  wavelength: number;
-  twoTheta: number[];
-  raw: number[];
-  background: number[];
-  /** Background + Kα1-only processed signal. */
-  processed: number[];
-  /** Background + fitted peak model. */
-  fitted: number[];
-  warnings: string[];
-  noConfidentMatch: boolean;
-  quantification: string;
-  /** Phases the search accepted into the mixture, with semi-quantitative wt% (RIR). */
-  mixture: { referencePhaseId: string; mineral: string; wtPercent: number | null; rir: number | null; scale: number; zeroShift: number }[];
-  broadFeatures: { twoTheta: number; d: number; fwhm: number }[];
-}
-
-const round = (x: number, digits: number) => {
-  const f = 10 ** digits;
-  return Math.round(x * f) / f;
-};
-const roundArray = (a: Float64Array, digits: number) => Array.from(a, (v) => round(v, digits));
 
 /** Hands the event loop back so requests are served between the CPU-heavy stages. */
 export const yieldToEventLoop = () => new Promise<void>((resolve) => setImmediate(resolve));
 
-type ScanWavelength = Pick<typeof scans.$inferSelect, "anode" | "wavelengthA" | "wavelength2A">;
-
-/**
- * Parses and processes scan text with a run's parameters. The wavelength is the scan's (from the file or the
- * upload form) unless the run overrides it; it is never silently assumed.
- */
-export function processScanText(text: string, requested: ProcessParamsInput, scanRow: ScanWavelength) {
-  const parsed = parseScan(text);
-  const req = requested.processing ?? {};
-  const override = req.anode !== undefined || req.wavelength !== undefined;
-  const params: ProcessParams = {
-    ...req,
-    ...(override
-      ? { anode: req.anode, wavelength: req.wavelength, wavelength2: req.wavelength2 }
-      : { anode: scanRow.anode ?? undefined, wavelength: scanRow.wavelengthA, wavelength2: scanRow.wavelength2A ?? req.wavelength2 }),
-    fallbackAnode: null,
-  };
-  return { parsed, processed: processScan(parsed, params) };
-}
-
-/** Search–match of processed peaks against the library over the measured range. */
-export function identifyProcessed(processed: ProcessedScan, requested: ProcessParamsInput, library: readonly ReferencePattern[]): IdentificationResult {
-  const n = processed.twoTheta.length;
-  return identifyPhases(processed.peaks, library, {
-    ...requested.identify,
-    wavelength: processed.wavelength,
-    twoThetaRange: [processed.twoTheta[0], processed.twoTheta[n - 1]],
-  });
-}
-
-function storedMatches(c: IdentificationResult["candidates"][number], ref: ReferencePattern | undefined): StoredMatch[] {
-  return c.matchedLines.map((m) => {
-    const line = ref?.lines[m.refIndex];
-    return {
-      twoTheta: round(m.twoTheta, 4),
-      d: round(m.d, 5),
-      dRef: round(m.dRef, 5),
-      intensity: round(m.intensity, 2),
-      intensityRef: round(m.intensityRef, 2),
-      hkl: line ? [line.h, line.k, line.l] : null,
-    };
-  });
-}
-
-function peakRow(runId: string, p: Peak) {
+export function peakRow(runId: string, p: Peak) {
   return {
     runId,
     twoTheta: p.twoTheta,
@@ -118,6 +56,26 @@ function peakRow(runId: string, p: Peak) {
   };
 }
 
+type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
+
+/** A phase row to insert for a run: the computed fields plus source and the analyst's decision. */
+export type PhaseRowInsert = ComputedPhaseRow & Pick<typeof phaseResults.$inferInsert, "source" | "status" | "decidedBy" | "decidedAt" | "note">;
+
+/** Inserts a run's peaks and phase rows (chunked: SQLite limits bound variables per statement). */
+export async function insertRunResults(tx: Tx, runId: string, scanId: string, peaks: readonly Peak[], rows: readonly PhaseRowInsert[]): Promise<void> {
+  for (let i = 0; i < peaks.length; i += 80) await tx.insert(peaksTable).values(peaks.slice(i, i + 80).map((p) => peakRow(runId, p)));
+  for (let i = 0; i < rows.length; i += 40) {
+    await tx.insert(phaseResults).values(
+      rows.slice(i, i + 40).map((r) => ({
+        ...r,
+        runId,
+        scanId,
+        fitJson: r.fitJson as unknown as Record<string, unknown> | null,
+      })),
+    );
+  }
+}
+
 function failureMessage(err: unknown): string {
   if (err instanceof RangeError || err instanceof TypeError || (err instanceof Error && err.name === "ScanParseError")) return err.message;
   if (err instanceof Error && err.name === "StorageError") return `The stored scan file could not be read (${err.message}).`;
@@ -125,8 +83,9 @@ function failureMessage(err: unknown): string {
 }
 
 /**
- * Executes a claimed (status "running") run: reads the stored file, processes and identifies it against the
- * reference library, and stores peaks, candidates and curves. The run ends "done" or "failed" (never throws for
+ * Executes a claimed (status "running") run: reads the stored file, processes it, ranks candidates by the
+ * peak-list search, fits the whole pattern against the reference library (the deciding step: its phases are the
+ * run's fitted phases, with wt% ± σ and evidence), and stores peaks, phases and curves. The run ends "done" or "failed" (never throws for
  * bad data). Yields to the event loop between stages.
  * @param onStage - called as each stage starts (progress for the client)
  */
@@ -156,55 +115,17 @@ export async function executeRun(runId: string, onStage: (stage: RunStage) => vo
     await yieldToEventLoop();
     const identification = identifyProcessed(processed, requested, library);
     await yieldToEventLoop();
+    onStage("fitting");
+    const fitOptions = fitOptionsOf(requested);
+    const fit = fitProcessed(processed, library, fitOptions);
+    await yieldToEventLoop();
     onStage("saving");
-    const byId = new Map(library.map((p) => [p.id, p]));
-    const wt = new Map(identification.phases.map((p) => [p.referenceId, p]));
-    const profile: RunProfile = {
-      wavelength: processed.wavelength,
-      twoTheta: roundArray(processed.twoTheta, 5),
-      raw: roundArray(processed.raw, 2),
-      background: roundArray(processed.background, 2),
-      processed: roundArray(processed.stripped, 2),
-      fitted: roundArray(processed.fitted, 2),
-      warnings: processed.warnings,
-      noConfidentMatch: identification.noConfidentMatch,
-      quantification: identification.quantification,
-      mixture: identification.phases.map((p) => ({
-        referencePhaseId: p.referenceId,
-        mineral: p.mineral,
-        wtPercent: p.wtPercent === null ? null : round(p.wtPercent, 2),
-        rir: p.rir,
-        scale: p.scale,
-        zeroShift: round(p.zeroShift, 4),
-      })),
-      broadFeatures: identification.broadFeatures.map((p) => ({ twoTheta: round(p.twoTheta, 4), d: round(p.d, 5), fwhm: round(p.fwhm, 4) })),
-    };
-    const resolvedParams: RunParams = { requested, resolved: { processing: processed.params, identify: identification.params } };
+    const profile = runProfileOf(processed, fit, identification, "fit");
+    const rows = phaseRowsOf(fit, searchRows(identification, library));
+    const resolvedParams: RunParams = { requested, resolved: { processing: processed.params, identify: identification.params, wholePattern: fitOptions } };
     const durationMs = Math.round(performance.now() - started);
     await db.transaction(async (tx) => {
-      if (processed.peaks.length > 0) {
-        // Chunked: SQLite limits bound variables per statement.
-        for (let i = 0; i < processed.peaks.length; i += 80) await tx.insert(peaksTable).values(processed.peaks.slice(i, i + 80).map((p) => peakRow(runId, p)));
-      }
-      if (identification.candidates.length > 0) {
-        await tx.insert(phaseResults).values(
-          identification.candidates.map((c, i) => {
-            const w = wt.get(c.referenceId)?.wtPercent;
-            return {
-              runId,
-              scanId: scan.id,
-              referencePhaseId: c.referenceId,
-              rank: i + 1,
-              score: round(c.score, 4),
-              confident: c.confident,
-              wtPercent: w == null ? null : Math.min(100, Math.max(0, round(w, 2))),
-              matchedJson: storedMatches(c, byId.get(c.referenceId)),
-              source: "auto" as const,
-              status: "candidate" as const,
-            };
-          }),
-        );
-      }
+      await insertRunResults(tx, runId, scan.id, processed.peaks, rows.map((r) => ({ ...r, source: "auto" as const, status: "candidate" as const })));
       await tx
         .update(processingRuns)
         .set({
@@ -212,7 +133,7 @@ export async function executeRun(runId: string, onStage: (stage: RunStage) => vo
           error: null,
           paramsJson: resolvedParams as unknown as Record<string, unknown>,
           profileJson: profile as unknown as Record<string, unknown>,
-          unexplainedJson: identification.unexplainedPeaks.map((p) => ({ twoTheta: round(p.twoTheta, 4), d: round(p.d, 5), intensity: round(p.intensity, 2) })),
+          unexplainedJson: unexplainedOf(fit),
           durationMs,
         })
         .where(eq(processingRuns.id, runId));
