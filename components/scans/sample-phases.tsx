@@ -8,7 +8,7 @@ import { SCAN_STATUS_LABEL } from "./scan-status";
 
 /**
  * "Phases" section of a sample page (server component): confirmed phases (signed off) apart from unconfirmed ones
- * (accepted but not signed off, and leading candidates), with links to the scans and the cautions that apply.
+ * (accepted but not signed off, phases of the whole-pattern fit, leading candidates), with links to the scans and the cautions that apply.
  */
 export async function SamplePhases({ actor, projectId, sampleId, canUpload }: { actor: Actor; projectId: string; sampleId: string; canUpload: boolean }) {
   const { confirmed, unconfirmed, scans } = await getSamplePhases(actor, projectId, sampleId);
@@ -52,9 +52,9 @@ export async function SamplePhases({ actor, projectId, sampleId, canUpload }: { 
           <ul className="mt-1 space-y-1" data-testid="unconfirmed-phases">
             {unconfirmed.map((p, i) => (
               <li key={`${p.scanId}-${p.mineral}-${i}`} className="flex flex-wrap items-baseline gap-2 text-sm text-muted">
-                <Badge>{p.kind === "accepted" ? "Accepted, not signed off" : "Leading candidate"}</Badge>
+                <Badge>{p.kind === "accepted" ? "Accepted, not signed off" : p.kind === "fitted" ? "In the fit, not confirmed" : "Leading candidate"}</Badge>
                 <span className="capitalize italic">{p.mineral}</span>
-                {p.score != null && <span className="text-xs">score {p.score.toFixed(2)}</span>}
+                {p.kind === "fitted" && p.wtPercent != null ? <span className="text-xs">≈ {p.wtPercent.toFixed(0)} wt% (semi-quantitative)</span> : p.score != null && <span className="text-xs">score {p.score.toFixed(2)}</span>}
                 <Link href={scanHref(p.scanId)} className="text-xs text-brand hover:underline">
                   {p.scanName}
                 </Link>

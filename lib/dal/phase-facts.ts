@@ -10,14 +10,14 @@ import { sampleFilter } from "./samples";
  * candidates, and the register WHERE clause with the phase filters.
  *
  * Confirmed = accepted on the current run of a signed-off scan. Candidate = on the current run of a scan
- * not yet signed off: accepted by the analyst, or undecided within the first `leading` ranks. Rejected
- * results never count.
+ * not yet signed off: accepted by the analyst, kept by the whole-pattern fit, or undecided within the first
+ * `leading` ranks of the search. Rejected results never count.
  */
 
 /** Condition on `sc` (scans) and `pr` (phase_results) for a confirmed result. */
 const CONFIRMED = sql.raw(`(sc.status = 'signed_off' AND pr.status = 'accepted')`);
 /** Condition for a leading candidate (unconfirmed). */
-const candidate = (leading: number) => sql`(sc.status <> 'signed_off' AND (pr.status = 'accepted' OR (pr.status = 'candidate' AND pr.rank IS NOT NULL AND pr.rank <= ${leading})))`;
+const candidate = (leading: number) => sql`(sc.status <> 'signed_off' AND (pr.status = 'accepted' OR (pr.status = 'candidate' AND (pr.fitted = 1 OR (pr.rank IS NOT NULL AND pr.rank <= ${leading})))))`;
 
 /** FROM part joining a sample's scans to their current runs' results and reference phases. */
 const FACTS_FROM = sql.raw(`scans sc JOIN phase_results pr ON pr.run_id = sc.current_run_id JOIN reference_phases rp ON rp.id = pr.reference_phase_id`);

@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, count, desc, eq, inArray, sql } from "drizzle-orm";
 import { getDb } from "@/db";
 import { peaks, phaseResults, processingRuns, referencePhases, samples, scans, user } from "@/db/schema";
-import { ensureProcessingWorker, PIPELINE_VERSION, runProgress, type RunParams, type RunProfile } from "@/lib/jobs";
+import { ensureProcessingWorker, PIPELINE_VERSION, runProgress, type RunParams, type RunProfile, type StoredFit } from "@/lib/jobs";
 import { resolveWavelength } from "@/lib/science/anodes";
 import { DEFAULT_MAX_BYTES, parseScan, ScanParseError } from "@/lib/science/scan";
 import type { Scan } from "@/lib/science/types";
@@ -461,7 +461,16 @@ export async function listScans(actor: Actor, projectId: string, raw: unknown) {
   // Leading candidate and accepted phases of each current run.
   const phaseRows = runIds.length
     ? await db
-        .select({ runId: phaseResults.runId, rank: phaseResults.rank, status: phaseResults.status, confident: phaseResults.confident, mineral: referencePhases.mineral, hazard: referencePhases.hazard })
+        .select({
+          runId: phaseResults.runId,
+          rank: phaseResults.rank,
+          status: phaseResults.status,
+          confident: phaseResults.confident,
+          fitted: phaseResults.fitted,
+          wtPercent: phaseResults.wtPercent,
+          mineral: referencePhases.mineral,
+          hazard: referencePhases.hazard,
+        })
         .from(phaseResults)
         .innerJoin(referencePhases, eq(referencePhases.id, phaseResults.referencePhaseId))
         .where(inArray(phaseResults.runId, runIds))
@@ -470,13 +479,15 @@ export async function listScans(actor: Actor, projectId: string, raw: unknown) {
   const items = rows.map((r) => {
     const ph = phaseRows.filter((p) => p.runId === r.currentRunId);
     const accepted = ph.filter((p) => p.status === "accepted").map((p) => ({ mineral: p.mineral, hazard: p.hazard }));
-    const leading = ph.find((p) => p.status !== "rejected" && p.rank != null);
+    // Leading: the whole-pattern fit's largest phase; runs without a fit fall back to the search's first candidate.
+    const fitted = ph.filter((p) => p.fitted && p.status !== "rejected").sort((a, b) => (b.wtPercent ?? -1) - (a.wtPercent ?? -1));
+    const leading = fitted[0] ?? (ph.some((p) => p.fitted) ? undefined : ph.find((p) => p.status !== "rejected" && p.rank != null));
     return {
       ...r,
       progress: r.currentRunId ? (progress.get(r.currentRunId) ?? null) : null,
       accepted,
-      leading: leading ? { mineral: leading.mineral, hazard: leading.hazard, confident: leading.confident } : null,
-      hazards: [...new Set(ph.filter((p) => p.status !== "rejected" && p.hazard && (p.status === "accepted" || p.rank === 1)).map((p) => p.hazard!))],
+      leading: leading ? { mineral: leading.mineral, hazard: leading.hazard, confident: leading.fitted || leading.confident } : null,
+      hazards: [...new Set(ph.filter((p) => p.status !== "rejected" && p.hazard && (p.status === "accepted" || p.fitted || p.rank === 1)).map((p) => p.hazard!))],
     };
   });
   return { items, total, page: q.page, pageSize: q.pageSize };
@@ -488,7 +499,10 @@ async function scanOrThrow(projectId: string, scanId: string): Promise<ScanRow> 
   return row;
 }
 
-/** Candidates and manual phases of a run, best rank first, with their reference phase. */
+/**
+ * Phases of a run with their reference phase: the whole-pattern fit's phases (`fitted`, with wt% ± σ and the fit's
+ * evidence), the search's ranked candidates (`rank`) and phases added by hand, best rank first.
+ */
 export async function runPhases(runId: string) {
   const db = getDb();
   const rows = await db
@@ -499,6 +513,9 @@ export async function runPhases(runId: string) {
       score: phaseResults.score,
       confident: phaseResults.confident,
       wtPercent: phaseResults.wtPercent,
+      wtSigma: phaseResults.wtSigma,
+      fitted: phaseResults.fitted,
+      fit: phaseResults.fitJson,
       matched: phaseResults.matchedJson,
       source: phaseResults.source,
       status: phaseResults.status,
@@ -517,7 +534,7 @@ export async function runPhases(runId: string) {
     .leftJoin(user, eq(user.id, phaseResults.decidedBy))
     .where(eq(phaseResults.runId, runId))
     .orderBy(sql`${phaseResults.rank} is null`, asc(phaseResults.rank), asc(phaseResults.createdAt));
-  return rows.map((r) => ({ ...r, otherHazards: r.builtin ? otherHazardsOf(r.mineral) : [] }));
+  return rows.map((r) => ({ ...r, fit: r.fit as StoredFit | null, otherHazards: r.builtin ? otherHazardsOf(r.mineral) : [] }));
 }
 
 /**
@@ -562,7 +579,10 @@ export async function getScanOrThrow(actor: Actor, projectId: string, scanId: st
   return {
     scan: { ...publicScan, signedOffByName: signer?.name ?? null },
     sample,
-    runs: runs.map((r) => ({ ...omit(r, "params"), progress: progress.get(r.id) ?? null, current: r.id === scan.currentRunId })),
+    runs: runs.map((r) => {
+      const refit = (r.params as unknown as RunParams | null)?.refit;
+      return { ...omit(r, "params"), refit: refit ? { fromRunId: refit.fromRunId, phaseCount: refit.phaseIds.length } : null, progress: progress.get(r.id) ?? null, current: r.id === scan.currentRunId };
+    }),
     run: detail,
     canProcess: isAdmin || access.role === "lab_analyst",
     canReview: isAdmin || access.role === "lab_analyst",

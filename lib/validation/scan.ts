@@ -132,6 +132,20 @@ export const manualPhaseSchema = z
   })
   .strict();
 
+/** Most phases the analyst may fit at once. */
+export const MAX_REFIT_PHASES = 10;
+
+/** Refit the whole pattern with exactly these reference phases (the analyst's choice). */
+export const refitSchema = z
+  .object({
+    phaseIds: z
+      .array(z.string({ error: "Each phase is a reference phase id." }).trim().min(1, "A phase id cannot be empty."), { error: "List the phases to fit (phaseIds)." })
+      .min(1, "Fit at least one phase.")
+      .max(MAX_REFIT_PHASES, `Fit at most ${MAX_REFIT_PHASES} phases at once.`)
+      .refine((ids) => new Set(ids).size === ids.length, "List each phase once."),
+  })
+  .strict();
+
 export const scanNoteSchema = z.object({ note: optionalText(8000) }).strict();
 
 /** Make an earlier run the current one. */
