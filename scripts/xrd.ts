@@ -6,7 +6,8 @@
  *
  * JSON contract (stable):
  *   identify → { wavelength, peaks:[{twoTheta,d,intensity,fwhm}], candidates:[{mineral,formula,score,confident}],
- *                phases:[{mineral,wtPercent}] }
+ *                phases:[{mineral,wtPercent,wtSigma,referenceId,series?,alternatives,rirWtPercent,evidence}],
+ *                rwp, rexp, gof, unexplained:[{twoTheta,d,intensity}], quantification }
  *   pattern  → { lines:[{h,k,l,d,twoTheta,intensity,multiplicity}] }
  * Exit codes: 0 ok, 2 bad input or usage (one-line message on stderr, with the file's line number when known).
  */
@@ -15,15 +16,17 @@ import { pathToFileURL } from "node:url";
 import { ANODES, isAnode, wavelengthsFor } from "@/lib/science/anodes";
 import { CifError, computePattern, parseCif } from "@/lib/science/crystal";
 import { identifyPhases } from "@/lib/science/identify";
+import { identifyWholePattern } from "@/lib/science/wholepattern";
 import { findLibraryPhase, REFERENCE_LIBRARY } from "@/lib/science/minerals";
 import { parseScan, ScanParseError } from "@/lib/science/scan";
 import { processScan } from "@/lib/science/signal";
 import type { Anode } from "@/lib/science/types";
 
 export const USAGE = `usage:
-  xrd identify FILE [--anode Cu|Co|Fe|Cr|Mo|Ag] [--wavelength Å] [--elements Si,O,...] [--json]
+  xrd identify FILE [--anode Cu|Co|Fe|Cr|Mo|Ag] [--wavelength Å] [--elements Si,O,...] [--ka2 auto|yes|no] [--json]
       find candidate phases of a powder scan (XY/XYE, CSV or pdCIF) in the shipped reference library
       --elements lists every element the phases may contain (include O, H, C where they may occur)
+      --ka2 whether the scan carries Kα2: auto (default) decides from the peak shapes, yes, or no (Kα1 only)
   xrd pattern FILE.cif [--anode Cu] [--wavelength Å] [--json]
       calculated powder pattern of a crystal structure (Bragg–Brentano, no monochromator, 2θ ≤ 90°)`;
 
@@ -44,6 +47,8 @@ interface Parsed {
   anode?: Anode;
   wavelength?: number;
   elements?: string[];
+  /** Kα2 in the scan: decided from the profile (auto), or said (yes / no). */
+  ka2?: "auto" | "yes" | "no";
   json: boolean;
 }
 
@@ -56,7 +61,7 @@ export function parseArgs(argv: readonly string[]): Parsed {
     throw new CliError(command ? `unknown command "${command}"` : "no command given", true);
   }
   const out: Parsed = { command, file: "", json: false };
-  const allowed = command === "identify" ? ["--anode", "--wavelength", "--elements", "--json"] : ["--anode", "--wavelength", "--json"];
+  const allowed = command === "identify" ? ["--anode", "--wavelength", "--elements", "--ka2", "--json"] : ["--anode", "--wavelength", "--json"];
   for (let i = 0; i < rest.length; i++) {
     const arg = rest[i];
     const [flag, inline] = arg.startsWith("--") && arg.includes("=") ? [arg.slice(0, arg.indexOf("=")), arg.slice(arg.indexOf("=") + 1)] : [arg, undefined];
@@ -80,6 +85,10 @@ export function parseArgs(argv: readonly string[]): Parsed {
       const w = Number(value);
       if (!(Number.isFinite(w) && w > 0.1 && w < 5)) throw new CliError(`--wavelength "${value}" must be a number of ångström between 0.1 and 5`);
       out.wavelength = w;
+    } else if (flag === "--ka2") {
+      const k = value.toLowerCase();
+      if (k !== "auto" && k !== "yes" && k !== "no") throw new CliError(`--ka2 "${value}" must be auto, yes or no`);
+      out.ka2 = k;
     } else {
       const list = value.split(",").map((s) => s.trim()).filter(Boolean);
       const bad = list.find((s) => !SYMBOL.test(s.charAt(0).toUpperCase() + s.slice(1).toLowerCase()));
@@ -102,57 +111,101 @@ function readText(file: string): string {
 
 const r = (x: number, digits: number): number => Math.round(x * 10 ** digits) / 10 ** digits;
 
-/** Result of `identify` in the stable JSON shape. */
+/** Result of `identify` in the stable JSON shape (fields after `phases` were added by the whole-pattern fit). */
 export interface IdentifyJson {
   wavelength: number;
   peaks: { twoTheta: number; d: number; intensity: number; fwhm: number }[];
   candidates: { mineral: string; formula: string; score: number; confident: boolean }[];
-  phases: { mineral: string; wtPercent: number | null }[];
+  phases: {
+    mineral: string;
+    wtPercent: number | null;
+    wtSigma: number | null;
+    referenceId: string;
+    series?: string;
+    alternatives: string[];
+    rirWtPercent: number | null;
+    evidence: { aloneLines: { twoTheta: number; d: number; hkl: [number, number, number] }[]; profileShare: number; deltaBic: number };
+  }[];
+  rwp: number;
+  rexp: number;
+  gof: number;
+  unexplained: { twoTheta: number; d: number; intensity: number }[];
+  quantification: { method: string; semiQuantitative: boolean; notes: string[] };
 }
 
 function runIdentify(args: Parsed): { json: IdentifyJson; text: string } {
   const text = readText(args.file);
   let scan;
   try {
-    scan = parseScan(text);
+    scan = parseScan(text, { wavelength: args.wavelength, anode: args.anode });
   } catch (e) {
     if (e instanceof ScanParseError || e instanceof RangeError || e instanceof TypeError) throw new CliError(`${args.file}: ${e.message}`);
     throw e;
   }
   let processed;
   try {
-    processed = processScan(scan, { anode: args.anode, wavelength: args.wavelength });
+    processed = processScan(scan, { anode: args.anode, wavelength: args.wavelength, kAlpha2: { mode: args.ka2 ?? "auto" } });
   } catch (e) {
     if (e instanceof RangeError || e instanceof TypeError) throw new CliError(`${args.file}: ${e.message}`);
     throw e;
   }
   const n = scan.twoTheta.length;
+  const elements = args.elements ? { allowed: args.elements } : undefined;
+  // The peak-list search ranks candidates for the analyst; the whole-pattern fit decides the phases.
   const result = identifyPhases(processed.peaks, REFERENCE_LIBRARY, {
     wavelength: processed.wavelength,
     twoThetaRange: [scan.twoTheta[0], scan.twoTheta[n - 1]],
-    elements: args.elements ? { allowed: args.elements } : undefined,
+    elements,
   });
+  const fit = identifyWholePattern(processed, REFERENCE_LIBRARY, { elements });
+  const fitted = new Map(fit.phases.map((p) => [p.referenceId, p]));
+  const listed = new Set(result.candidates.map((c) => c.referenceId));
   const json: IdentifyJson = {
     wavelength: processed.wavelength,
     peaks: processed.peaks.map((p) => ({ twoTheta: r(p.twoTheta, 4), d: r(p.d, 5), intensity: r(p.intensity, 2), fwhm: r(p.fwhm, 4) })),
-    candidates: result.candidates.map((c) => ({ mineral: c.mineral, formula: c.formula, score: c.score, confident: c.confident })),
-    phases: result.phases.map((p) => ({ mineral: p.mineral, wtPercent: p.wtPercent })),
+    candidates: [
+      ...fit.phases.filter((p) => !listed.has(p.referenceId)).map((p) => ({ mineral: p.mineral, formula: p.formula, score: r(p.evidence.profileShare, 4), confident: true })),
+      ...result.candidates.map((c) => ({ mineral: c.mineral, formula: c.formula, score: c.score, confident: fitted.has(c.referenceId) })),
+    ],
+    phases: fit.phases.map((p) => ({
+      mineral: p.mineral,
+      wtPercent: p.wtPercent,
+      wtSigma: p.wtSigma,
+      referenceId: p.referenceId,
+      ...(p.series ? { series: p.series } : {}),
+      alternatives: p.alternatives.map((a) => a.mineral),
+      rirWtPercent: p.rirWtPercent,
+      evidence: {
+        aloneLines: p.evidence.aloneLines.map((l) => ({ twoTheta: l.twoTheta, d: l.d, hkl: l.hkl })),
+        profileShare: r(p.evidence.profileShare, 4),
+        deltaBic: r(p.evidence.deltaBic, 1),
+      },
+    })),
+    rwp: fit.stats.rwp,
+    rexp: fit.stats.rexp,
+    gof: fit.stats.gof,
+    unexplained: fit.unexplained,
+    quantification: { method: fit.quantification.method, semiQuantitative: fit.quantification.semiQuantitative, notes: fit.quantification.notes },
   };
   const out: string[] = [];
   out.push(`${args.file}: ${n} points, ${scan.twoTheta[0]}–${scan.twoTheta[n - 1]}° 2θ, λ = ${processed.wavelength} Å`);
   for (const w of processed.warnings) out.push(`note: ${w}`);
   out.push("", `Peaks (${json.peaks.length})`, "     2θ (°)      d (Å)   I (%)   FWHM (°)");
   for (const p of json.peaks) out.push(`${p.twoTheta.toFixed(3).padStart(11)} ${p.d.toFixed(4).padStart(10)} ${p.intensity.toFixed(1).padStart(7)} ${p.fwhm.toFixed(3).padStart(10)}`);
-  out.push("", "Candidates (ranked)", "  score  confident  mineral               formula");
+  out.push("", "Candidates (ranked; confident = kept by the whole-pattern fit)", "  score  confident  mineral               formula");
   if (json.candidates.length === 0) out.push("  (none)");
   for (const c of json.candidates.slice(0, 15))
     out.push(`  ${c.score.toFixed(2).padStart(5)}  ${(c.confident ? "yes" : "no").padEnd(9)}  ${c.mineral.padEnd(20)}  ${c.formula}`);
+  out.push("", `Whole-pattern fit: Rwp ${fit.stats.rwp} %, Rexp ${fit.stats.rexp} %, χ² ${fit.stats.gof}`);
   out.push("", "Phases");
-  if (result.noConfidentMatch) out.push("  no confident match (amorphous material, a phase not in the library, or too few peaks)");
-  for (const p of result.phases) out.push(`  ${p.mineral.padEnd(20)} ${p.wtPercent === null ? "wt% n/a" : `${p.wtPercent.toFixed(1).padStart(5)} wt%`}`);
-  if (result.unexplainedPeaks.length > 0)
-    out.push(`  unexplained peaks at ${result.unexplainedPeaks.map((p) => p.twoTheta.toFixed(2)).join(", ")}° 2θ`);
-  for (const p of result.phases) {
+  if (fit.noConfidentMatch) out.push("  no confident match (amorphous material, a phase not in the library, or too few peaks)");
+  for (const p of json.phases)
+    out.push(
+      `  ${p.mineral.padEnd(20)} ${p.wtPercent === null ? "wt% n/a" : `${p.wtPercent.toFixed(1).padStart(5)} ± ${(p.wtSigma ?? 0).toFixed(1)} wt%`}  ${p.evidence.aloneLines.length} lines of its own, ${(100 * p.evidence.profileShare).toFixed(0)} % of the profile${p.alternatives.length ? `; a pattern alone cannot tell it from ${p.alternatives.join(", ")}` : ""}`,
+    );
+  for (const note of fit.quantification.notes) out.push(`  note: ${note}`);
+  if (fit.unexplained.length > 0) out.push(`  unexplained peaks at d = ${fit.unexplained.map((p) => p.d.toFixed(3)).join(", ")} Å`);
+  for (const p of fit.phases) {
     const hazards = findLibraryPhase(p.referenceId)?.hazards ?? [];
     if (hazards.includes("crystalline_silica"))
       out.push(`caution: ${p.mineral} is crystalline silica; respirable dust is a health hazard — follow local regulations for handling and grinding.`);
@@ -162,7 +215,7 @@ function runIdentify(args: Parsed): { json: IdentifyJson; text: string } {
   }
   out.push(
     "",
-    "Ranked candidates are suggestions, not an identification; wt% are semi-quantitative (RIR method, Chung 1974; assumes no amorphous or unidentified content).",
+    `Fitted phases and ranked candidates are suggestions, not an identification; wt% are ${fit.quantification.semiQuantitative ? "semi-quantitative" : "quantitative"} (${fit.quantification.method}${fit.quantification.semiQuantitative ? "; assumes no amorphous or unidentified content" : ""}).`,
   );
   return { json, text: out.join("\n") };
 }

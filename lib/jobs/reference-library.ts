@@ -20,7 +20,7 @@ type ReferenceRow = Pick<
 > & {
   /** Whole-pattern fit data (null or absent for rows stored before the column existed). */
   fitJson?: Partial<PhaseFitData> | null;
-};
+} & Partial<Pick<typeof referencePhases.$inferSelect, "cellA" | "cellB" | "cellC" | "cellAlpha" | "cellBeta" | "cellGamma">>;
 
 /** A reference_phases row as the identifier's pattern; the pattern id is the row id, so candidates map back to rows. */
 export function patternFromRow(row: ReferenceRow): ReferencePattern {
@@ -35,6 +35,9 @@ export function patternFromRow(row: ReferenceRow): ReferencePattern {
     ...(row.hazard ? { hazard: row.hazard } : {}),
     ...(row.mineralGroup ? { group: row.mineralGroup } : {}),
     ...(row.fitJson ? fitFieldsOf(row.fitJson) : {}),
+    ...(row.cellA != null && row.cellB != null && row.cellC != null && row.cellAlpha != null && row.cellBeta != null && row.cellGamma != null
+      ? { cell: { a: row.cellA, b: row.cellB, c: row.cellC, alpha: row.cellAlpha, beta: row.cellBeta, gamma: row.cellGamma } }
+      : {}),
   };
 }
 
@@ -71,6 +74,12 @@ export async function loadReferenceLibrary(): Promise<readonly ReferencePattern[
       hazard: referencePhases.hazard,
       mineralGroup: referencePhases.mineralGroup,
       fitJson: referencePhases.fitJson,
+      cellA: referencePhases.cellA,
+      cellB: referencePhases.cellB,
+      cellC: referencePhases.cellC,
+      cellAlpha: referencePhases.cellAlpha,
+      cellBeta: referencePhases.cellBeta,
+      cellGamma: referencePhases.cellGamma,
     })
     .from(referencePhases)
     .orderBy(referencePhases.mineral, referencePhases.id);

@@ -114,6 +114,7 @@ export function toReferencePattern(phase: LibraryPhase, wavelength = LIBRARY_FIL
     ...(hazard ? { hazard } : {}),
     ...(phase.group ? { group: phase.group } : {}),
     ...fitFieldsOf(phase),
+    cell: { ...phase.cell },
   };
 }
 

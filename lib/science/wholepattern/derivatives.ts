@@ -1,0 +1,122 @@
+/**
+ * One phase's calculated profile together with its derivatives with respect to the non-linear parameters, in a
+ * single pass over the lines (analytic derivatives of the pseudo-Voigt, chain rule through Bragg's law, the
+ * displacement term, the Caglioti width and the March–Dollase factor of Dollase 1986).
+ */
+import { marchDollase } from "@/lib/science/crystal/preferred-orientation";
+import type { PhaseLines } from "./phase-lines";
+import { cagliotiFwhm, linePosition, lowerBound } from "./profile";
+import type { GlobalProfile, PhaseProfileParams } from "./types";
+
+const DEG = 180 / Math.PI;
+const LN2 = Math.LN2;
+const CG = 2 * Math.sqrt(LN2 / Math.PI);
+const CL = 2 / Math.PI;
+const TAIL_FWHM = 12;
+const GAUSS_FWHM = 3;
+
+/** Profile and derivatives of one phase, each the length of the grid. */
+export interface PhaseRender {
+  value: Float64Array;
+  /** ∂/∂(zero shift, °). */
+  dZero: Float64Array;
+  /** ∂/∂(displacement, mm). */
+  dDisp: Float64Array;
+  /** ∂/∂η. */
+  dEta: Float64Array;
+  /** ∂/∂(relative cell change), i.e. ∂/∂cellScale. */
+  dCell: Float64Array;
+  /** ∂/∂ln(width factor). */
+  dLnWidth: Float64Array;
+  /** ∂/∂ln(March r), or null when the phase has no texture axis. */
+  dLnR: Float64Array | null;
+  /** Index span [lo, hi] of non-zero values. */
+  span: [number, number];
+}
+
+export function emptyRender(n: number, textured: boolean): PhaseRender {
+  return {
+    value: new Float64Array(n),
+    dZero: new Float64Array(n),
+    dDisp: new Float64Array(n),
+    dEta: new Float64Array(n),
+    dCell: new Float64Array(n),
+    dLnWidth: new Float64Array(n),
+    dLnR: textured ? new Float64Array(n) : null,
+    span: [n, -1],
+  };
+}
+
+/** d ln P / d ln r of the March–Dollase factor P = (r²cos²α + sin²α/r)^(−3/2). */
+function dLnMarch(cosAlpha: number, r: number): number {
+  const c2 = cosAlpha * cosAlpha;
+  const s2 = 1 - c2;
+  const q = r * r * c2 + s2 / r;
+  return (-1.5 * (2 * r * r * c2 - s2 / r)) / q;
+}
+
+/**
+ * Render a phase (unit scale) with derivatives into `out` (zeroed first).
+ */
+export function renderPhaseWithDerivatives(x: Float64Array, lines: PhaseLines, g: GlobalProfile, p: PhaseProfileParams, out: PhaseRender): void {
+  const n = x.length;
+  for (const a of [out.value, out.dZero, out.dDisp, out.dEta, out.dCell, out.dLnWidth, out.dLnR]) a?.fill(0);
+  let spanLo = n;
+  let spanHi = -1;
+  const lo = x[0];
+  const hi = x[n - 1];
+  const useMd = lines.cosAlpha !== null && p.marchR !== null;
+  const eta = g.eta;
+  const waves: [number, number][] = [[g.wavelength, 1]];
+  if (g.wavelength2 !== null && g.ka2Ratio > 0) waves.push([g.wavelength2, g.ka2Ratio]);
+  for (let j = 0; j < lines.count; j++) {
+    const d = lines.d[j] * p.cellScale;
+    let area = lines.intensity[j];
+    let dlnA = 0;
+    if (useMd) {
+      area *= marchDollase(lines.cosAlpha![j], p.marchR!);
+      dlnA = dLnMarch(lines.cosAlpha![j], p.marchR!);
+    }
+    for (const [lambda, ratio] of waves) {
+      const pos = linePosition(d, lambda, g);
+      if (!Number.isFinite(pos.twoTheta)) continue;
+      const theta = pos.theta;
+      const h = p.widthFactor * cagliotiFwhm(g.caglioti, theta);
+      if (pos.twoTheta + TAIL_FWHM * h < lo || pos.twoTheta - TAIL_FWHM * h > hi) continue;
+      const A = area * ratio;
+      const dPosDisp = ((-2 * Math.cos(theta)) / g.radiusMm) * DEG;
+      // 2θ = 2·asin(λ/2d): ∂(2θ)/∂(cellScale) = −2·tanθ/cellScale (rad) at fixed λ.
+      const dPosCell = ((-2 * Math.tan(theta)) / p.cellScale) * DEG;
+      const h2 = h * h;
+      const inv2 = 1 / h2;
+      const gLim = GAUSS_FWHM * GAUSS_FWHM * h2;
+      const start = lowerBound(x, pos.twoTheta - TAIL_FWHM * h);
+      const end = pos.twoTheta + TAIL_FWHM * h;
+      if (start < spanLo) spanLo = start;
+      for (let i = start; i < n; i++) {
+        const xi = x[i];
+        if (xi > end) break;
+        if (i > spanHi) spanHi = i;
+        const u = xi - pos.twoTheta;
+        const z = u * u * inv2;
+        const q = 1 + 4 * z;
+        const L = CL / (h * q);
+        const G = z < GAUSS_FWHM * GAUSS_FWHM && u * u < gLim ? (CG / h) * Math.exp(-4 * LN2 * z) : 0;
+        const f = eta * L + (1 - eta) * G;
+        // ∂f/∂pos (pos = 2θ₀): ∂G/∂pos = G·8ln2·u/H², ∂L/∂pos = L·8u/(H²q)
+        const dPos = A * (eta * ((L * 8 * u) / (h2 * q)) + (1 - eta) * ((G * 8 * LN2 * u) / h2));
+        // H·∂f/∂H: G(−1 + 8ln2·z), L(−1 + 8z/q)
+        const dLnH = A * (eta * L * (-1 + (8 * z) / q) + (1 - eta) * G * (-1 + 8 * LN2 * z));
+        const v = A * f;
+        out.value[i] += v;
+        out.dZero[i] += dPos;
+        out.dDisp[i] += dPos * dPosDisp;
+        out.dCell[i] += dPos * dPosCell;
+        out.dLnWidth[i] += dLnH;
+        out.dEta[i] += A * (L - G);
+        if (out.dLnR) out.dLnR[i] += v * dlnA;
+      }
+    }
+  }
+  out.span = [spanLo, spanHi];
+}
