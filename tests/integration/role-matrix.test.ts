@@ -12,13 +12,18 @@ import { GET as listTilePackages } from "@/app/api/projects/[projectId]/tile-pac
 import { GET as listStations, POST as createStation } from "@/app/api/projects/[projectId]/stations/route";
 import { PATCH as patchStation } from "@/app/api/projects/[projectId]/stations/[stationId]/route";
 import { POST as addStructure } from "@/app/api/projects/[projectId]/stations/[stationId]/structures/route";
-import { GET as listScans } from "@/app/api/projects/[projectId]/scans/route";
+import { GET as listScans, POST as uploadScan } from "@/app/api/projects/[projectId]/scans/route";
+import { POST as refitScan } from "@/app/api/projects/[projectId]/scans/[scanId]/refit/route";
 import { GET as phaseMap } from "@/app/api/projects/[projectId]/phase-map/route";
 import { GET as exportFormat } from "@/app/api/projects/[projectId]/exports/[format]/route";
 import { GET as listShareLinks, POST as createShareLink } from "@/app/api/projects/[projectId]/share-links/route";
+import { eq } from "drizzle-orm";
 import { getDb } from "@/db";
-import { samples, stations, type ProjectRole } from "@/db/schema";
+import { seedReferenceLibrary } from "@/db/seed/reference-library";
+import { referencePhases, samples, stations, type ProjectRole } from "@/db/schema";
+import { drainProcessingQueue } from "@/lib/jobs";
 import { PERMISSIONS, type Permission } from "@/lib/dal/permissions";
+import { quartzCalciteXy } from "../fixtures/lab/handbook-scans";
 import { call, makeWorld, type World } from "../helpers/app";
 
 /**
@@ -58,6 +63,15 @@ const ROUTES: RouteCase[] = [
     body: () => ({ convention: "rhr", feature: "bedding", strike: 30, dip: 40 }),
   },
   { name: "GET scans", handler: listScans, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
+  // Each allowed refit adds a run to the same processed scan (it stays reviewable).
+  {
+    name: "POST scan refit",
+    handler: refitScan,
+    method: "POST",
+    permission: "phase.review",
+    params: (w) => ({ projectId: w.projectId, scanId: review.scanId }),
+    body: () => ({ phaseIds: review.phaseIds }),
+  },
   { name: "GET phase map", handler: phaseMap, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "GET project", handler: getProject, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "GET samples", handler: listSamples, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
@@ -86,8 +100,21 @@ const ROUTES: RouteCase[] = [
 const ROLES: (ProjectRole | "admin" | "outsider")[] = ["lead", "field_geologist", "lab_analyst", "consultant", "admin", "outsider"];
 
 let w: World;
+/** A processed scan (handbook quartz + calcite, tests/fixtures/lab/handbook-scans.ts) and the phases to refit it with. */
+const review = { scanId: "", phaseIds: [] as string[] };
 beforeAll(async () => {
   w = await makeWorld();
+  await seedReferenceLibrary();
+  const [s] = await getDb().insert(samples).values({ projectId: w.projectId, code: "RM-SCAN-1", sampleType: "chip" }).returning();
+  const f = new FormData();
+  f.set("sampleId", s.id);
+  f.append("file", new Blob([quartzCalciteXy()]), "RM-SCAN-1.xy");
+  const up = await call(uploadScan, { method: "POST", params: { projectId: w.projectId }, cookie: w.cookies.lab_analyst, rawBody: f });
+  if (up.status !== 201) throw new Error(`fixture scan upload failed: ${JSON.stringify(up.json)}`);
+  await drainProcessingQueue();
+  review.scanId = up.json.scan.id;
+  const phases = await getDb().select({ id: referencePhases.id, mineral: referencePhases.mineral }).from(referencePhases).where(eq(referencePhases.builtin, true));
+  review.phaseIds = phases.filter((p) => p.mineral === "quartz" || p.mineral === "calcite").map((p) => p.id);
 });
 
 /** A fresh sample per call so PATCH with version 1 is always current. */
