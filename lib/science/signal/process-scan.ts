@@ -430,6 +430,13 @@ export function processScan(scan: Scan, params: ProcessParams = {}): ProcessedSc
   // Noise: variance of each raw point (counting statistics), and σ at background level after smoothing.
   const noise = countingVariance(raw, smoothed, scan.esd, p.noise);
   const gain = p.smoothing.enabled ? savitzkyGolayNoiseGain(p.smoothing.windowSize, p.smoothing.polynomial) : 1;
+  // On a resampled scan a coarse stretch has fewer independent points per window than grid points: the smoothing
+  // gain there is larger, about gain·√(local step / grid step) (white noise), at most 1.
+  const gainAt = (i: number): number => {
+    if (!grid || gain >= 1) return gain;
+    const a = Math.min(n - 2, i);
+    return Math.min(1, gain * Math.sqrt(Math.max(1, (twoTheta[a + 1] - twoTheta[a]) / grid.step)));
+  };
   const sigmaBgRaw = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     const v =
@@ -440,7 +447,7 @@ export function processScan(scan: Scan, params: ProcessParams = {}): ProcessedSc
           : noise.variance[i];
     sigmaBgRaw[i] = Math.sqrt(Math.max(v, 1e-12));
   }
-  const sigmaSmoothed = sigmaBgRaw.map((v) => v * gain);
+  const sigmaSmoothed = sigmaBgRaw.map((v, i) => v * gainAt(i));
   const background =
     p.background.enabled && p.background.biasCorrection
       ? correctClippingBias(smoothed, snip, sigmaSmoothed).background
@@ -459,7 +466,7 @@ export function processScan(scan: Scan, params: ProcessParams = {}): ProcessedSc
         : noise.model === "empirical"
           ? noise.scale * noise.scale * Math.max(smoothed[i], background[i], 1e-12)
           : noise.variance[i];
-    sigmaLocal[i] = Math.sqrt(Math.max(v, 1e-12)) * gain;
+    sigmaLocal[i] = Math.sqrt(Math.max(v, 1e-12)) * gainAt(i);
   }
 
   // Kα2: decided from the peak shapes unless the caller said.
@@ -601,6 +608,8 @@ function acceptFitted(peaks: FittedPeak[], twoTheta: Float64Array, sigma: Float6
       else hi = mid;
     }
     if (f.height < p.peaks.k * sigma[lo]) continue;
+    // Narrower than the local step: not resolved by the measurement (a spike on one or two points).
+    if (f.fwhm < twoTheta[Math.min(lo + 1, twoTheta.length - 1)] - twoTheta[lo]) continue;
     const prev = out[out.length - 1];
     if (prev && f.twoTheta - prev.twoTheta < 0.3 * Math.min(prev.fwhm, f.fwhm)) {
       if (f.height > prev.height) out[out.length - 1] = f;
