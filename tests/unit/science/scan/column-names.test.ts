@@ -11,10 +11,10 @@ const DEG = Math.PI / 180;
 const N = 60;
 
 /** Rows of 2θ = 10.00 + 0.02·i and counts = 100 + i, joined by `sep` (decimal comma with ";"). */
-function rows(sep: string, { extra = (_i: number): string[] => [] } = {}): string[] {
+function rows(sep: string, { extra }: { extra?: (i: number) => string[] } = {}): string[] {
   const out: string[] = [];
   for (let i = 0; i < N; i++) {
-    const cells = [(10 + i * 0.02).toFixed(2), String(100 + i), ...extra(i)];
+    const cells = [(10 + i * 0.02).toFixed(2), String(100 + i), ...(extra ? extra(i) : [])];
     out.push(cells.map((c) => (sep === ";" ? c.replace(".", ",") : c)).join(sep));
   }
   return out;
