@@ -1,7 +1,7 @@
 /**
  * Demo XRD scans for the invented Arroyo Pinar scenario. Every scan is SYNTHETIC: made with lib/science/synthetic
  * from the shipped calculated patterns (invented mixtures, seeded Poisson noise), written as XY text into file
- * storage at seed time, then processed by the real job runner. Mixtures are plausible for each lithology, not
+ * storage at seed time, then processed by the real job runner (peak-list search and whole-pattern fit). Mixtures are plausible for each lithology, not
  * measurements. Twelve samples are scanned: eight signed off with confirmed phases, three awaiting review (one in
  * the diabase with a tremolite candidate, so the asbestos caution shows) and one left queued (processed when the
  * app starts serving scans).
@@ -9,6 +9,7 @@
 import { and, eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db";
 import { auditLog, custodyEvents, phaseResults, processingRuns, projects, referencePhases, samples, scans, user } from "@/db/schema";
+import type { SignOffRecord } from "@/lib/dal/scan-review";
 import { drainProcessingQueue, PIPELINE_VERSION, type RunParams, type RunProfile } from "@/lib/jobs";
 import { findLibraryPhase, findReferencePattern } from "@/lib/science/minerals";
 import { writeXy } from "@/lib/science/scan";
@@ -158,22 +159,33 @@ export async function seedDemoScans(projectCode = "APR"): Promise<number> {
     await db.update(scans).set({ currentRunId: p.runId }).where(eq(scans.id, p.scanId));
   }
 
-  // The analyst's review: accept the intended phases the search found; sign off where planned.
+  // The analyst's review: accept the intended phases the whole-pattern fit kept (runs whose fit kept none fall back
+  // to the search's mixture and strong candidates); sign off where planned, recording the fit statistics.
   for (const p of planned.filter((x) => x.plan.outcome !== "queued")) {
     const [scan] = await db.select().from(scans).where(eq(scans.id, p.scanId));
     const [run] = await db.select({ profile: processingRuns.profileJson }).from(processingRuns).where(eq(processingRuns.id, scan.currentRunId!));
-    const mixture = ((run?.profile ?? {}) as unknown as RunProfile).mixture ?? [];
+    const profile = (run?.profile ?? {}) as unknown as RunProfile;
+    const mixture = profile.mixture ?? [];
     const intended = new Set(Object.keys(p.plan.mix));
     const decidedAt = new Date(p.at.getTime() + 26 * 3600_000);
     const phaseRows = await db
-      .select({ id: phaseResults.id, referencePhaseId: phaseResults.referencePhaseId, confident: phaseResults.confident, mineral: referencePhases.mineral })
+      .select({
+        id: phaseResults.id,
+        referencePhaseId: phaseResults.referencePhaseId,
+        confident: phaseResults.confident,
+        fitted: phaseResults.fitted,
+        wtPercent: phaseResults.wtPercent,
+        wtSigma: phaseResults.wtSigma,
+        source: phaseResults.source,
+        mineral: referencePhases.mineral,
+      })
       .from(phaseResults)
       .innerJoin(referencePhases, eq(referencePhases.id, phaseResults.referencePhaseId))
       .where(eq(phaseResults.runId, scan.currentRunId!));
-    // What the analyst accepts: intended phases the search put in the mixture or called confident.
-    const accept = [
-      ...new Set([...mixture.filter((m) => intended.has(m.mineral)).map((m) => m.referencePhaseId), ...phaseRows.filter((r) => r.confident && intended.has(r.mineral)).map((r) => r.referencePhaseId)]),
-    ];
+    const fittedIntended = phaseRows.filter((r) => r.fitted && intended.has(r.mineral)).map((r) => r.referencePhaseId);
+    const accept = fittedIntended.length
+      ? fittedIntended
+      : [...new Set([...mixture.filter((m) => intended.has(m.mineral)).map((m) => m.referencePhaseId), ...phaseRows.filter((r) => r.confident && intended.has(r.mineral)).map((r) => r.referencePhaseId)])];
     if (p.plan.outcome === "review") continue;
     for (const row of phaseRows) {
       if (!accept.includes(row.referencePhaseId)) continue;
@@ -181,11 +193,19 @@ export async function seedDemoScans(projectCode = "APR"): Promise<number> {
     }
     if (accept.length === 0) continue;
     const signedAt = new Date(decidedAt.getTime() + 3600_000);
+    const fit = profile.fit;
+    const record: SignOffRecord = {
+      runId: scan.currentRunId!,
+      fit: fit ? { ...fit.stats, quantification: fit.quantification.method, semiQuantitative: fit.quantification.semiQuantitative, chosenBy: fit.chosenBy, noConfidentMatch: fit.noConfidentMatch } : null,
+      phases: phaseRows
+        .filter((r) => accept.includes(r.referencePhaseId))
+        .map((r) => ({ phaseResultId: r.id, referencePhaseId: r.referencePhaseId, mineral: r.mineral, wtPercent: r.wtPercent, wtSigma: r.wtSigma, fitted: r.fitted, source: r.source })),
+    };
     await db.transaction(async (tx) => {
-      await tx.update(scans).set({ status: "signed_off", signedOffBy: lab.id, signedOffAt: signedAt }).where(eq(scans.id, p.scanId));
+      await tx.update(scans).set({ status: "signed_off", signedOffBy: lab.id, signedOffAt: signedAt, signOffJson: record as unknown as Record<string, unknown> }).where(eq(scans.id, p.scanId));
       const [s] = await tx.select().from(samples).where(eq(samples.id, p.sampleId));
       if (STATUS_RANK[s.status] < STATUS_RANK.confirmed) await tx.update(samples).set({ status: "confirmed", version: s.version + 1 }).where(eq(samples.id, s.id));
-      await tx.insert(auditLog).values({ projectId: project.id, actorId: lab.id, action: "sign_off", entity: "scan", entityId: p.scanId, afterJson: { status: "signed_off", accepted: accept.length }, createdAt: signedAt });
+      await tx.insert(auditLog).values({ projectId: project.id, actorId: lab.id, action: "sign_off", entity: "scan", entityId: p.scanId, afterJson: { status: "signed_off", runId: record.runId, fit: record.fit, confirmed: record.phases }, createdAt: signedAt });
     });
   }
   return planned.length;
