@@ -18,13 +18,27 @@ interface SampleHit {
 }
 
 /** What the browser could read from a chosen file (the server checks again). */
-type LocalCheck = { ok: true; points: number; start: number; end: number; step: number; anode?: string; wavelength?: number; instrument?: string } | { ok: false; message: string } | null;
+type LocalCheck =
+  | { ok: true; points: number; start: number; end: number; step: number; anode?: string; wavelength?: number; instrument?: string; notes: string[] }
+  | { ok: false; message: string }
+  | null;
 
 async function checkLocally(file: File): Promise<LocalCheck> {
+  const text = await file.text();
   try {
-    const scan = parseScan(await file.text());
+    let scan;
+    const notes: string[] = [];
+    try {
+      scan = parseScan(text);
+    } catch (err) {
+      // d-spacings without a wavelength in the file: the form's anode or wavelength converts them on upload.
+      if (!(err instanceof ScanParseError && err.code === "NEEDS_WAVELENGTH")) throw err;
+      scan = parseScan(text, { anode: "Cu" });
+      notes.push("The file gives d-spacings and no wavelength: they are converted to 2θ with the anode or wavelength set below (range shown for Cu).");
+    }
     const n = scan.twoTheta.length;
-    return { ok: true, points: n, start: scan.twoTheta[0], end: scan.twoTheta[n - 1], step: (scan.twoTheta[n - 1] - scan.twoTheta[0]) / (n - 1), anode: scan.meta.anode, wavelength: scan.meta.wavelength, instrument: scan.meta.instrument };
+    notes.push(...(scan.meta.warnings ?? []));
+    return { ok: true, points: n, start: scan.twoTheta[0], end: scan.twoTheta[n - 1], step: (scan.twoTheta[n - 1] - scan.twoTheta[0]) / (n - 1), anode: scan.meta.anode, wavelength: scan.meta.wavelength, instrument: scan.meta.instrument, notes };
   } catch (err) {
     return { ok: false, message: err instanceof ScanParseError ? err.message : "The file could not be read." };
   }
@@ -50,6 +64,13 @@ function SettingsFields({ id, errors }: { id: string; errors?: Record<string, st
       </Field>
       <Field label="Instrument" htmlFor={`${id}-inst`} error={errors?.instrument}>
         <input id={`${id}-inst`} name="instrument" className={inputClass} placeholder="e.g. Lab diffractometer 2" />
+      </Field>
+      <Field label="Kα2" htmlFor={`${id}-ka2`} hint="Absent on Kα1-only scans (primary monochromator)" error={errors?.kAlpha2}>
+        <select id={`${id}-ka2`} name="kAlpha2" className={inputClass} defaultValue="auto">
+          <option value="auto">Decide from the peak shapes</option>
+          <option value="present">Present (Kα1 + Kα2)</option>
+          <option value="absent">Absent (Kα1 only)</option>
+        </select>
       </Field>
     </fieldset>
   );
@@ -135,6 +156,11 @@ function SingleUpload({ projectId, initialSample }: { projectId: string; initial
           {check.points} points, {check.start}–{check.end}° 2θ, step ≈ {check.step.toFixed(4)}°.{" "}
           {check.anode || check.wavelength ? `The file gives ${check.anode ?? ""} ${check.wavelength ? `λ = ${check.wavelength} Å` : ""}; that is used.` : "The file gives no anode or wavelength: the form's setting is used."}
           {check.instrument && ` Instrument: ${check.instrument}.`}
+          {check.notes.length > 0 && (
+            <span className="mt-1 block text-muted" data-testid="file-check-notes">
+              {check.notes.map((n) => `Note: ${n.replace(/\.$/, "")}.`).join(" ")}
+            </span>
+          )}
         </p>
       )}
       <SettingsFields id={id} errors={err?.fields} />

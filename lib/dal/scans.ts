@@ -13,6 +13,7 @@ import {
   processParamsSchema,
   scanListQuerySchema,
   scanPatchSchema,
+  kAlpha2Mode,
   scanSettingsSchema,
   scanUploadSchema,
   type ScanSettingsInput,
@@ -53,6 +54,8 @@ interface ReadScan {
   wavelength2A: number | null;
   instrument: string | null;
   settings: Record<string, unknown>;
+  /** Processing parameters the upload form asks for (the first run's `requested`). */
+  requested: RunParams["requested"];
   twoThetaStart: number;
   twoThetaEnd: number;
   stepDeg: number;
@@ -95,7 +98,8 @@ function readScanFile(file: UploadedFile, form: ScanSettingsInput): ReadScan | F
   const text = new TextDecoder("utf-8").decode(file.bytes);
   let scan: Scan;
   try {
-    scan = parseScan(text);
+    // The form's wavelength and time per step serve files that give d instead of 2θ, or counts per second.
+    scan = parseScan(text, { wavelength: form.wavelength, anode: form.anode, countingTimeS: form.timePerStepS });
   } catch (err) {
     if (err instanceof ScanParseError) {
       return { fileName: file.name, message: err.message, code: err.code, ...(err.line !== undefined && { line: err.line }), ...(err.column !== undefined && { column: err.column }), ...(err.field && { field: err.field }) };
@@ -140,6 +144,7 @@ function readScanFile(file: UploadedFile, form: ScanSettingsInput): ReadScan | F
       notes.push(`The form gave ${form.anode ?? `${form.wavelength} Å`}, but the file says ${wl.anode ?? ""} ${wl.wavelength} Å; the file's value is used.`.replace(/\s+/g, " "));
     }
   }
+  notes.push(...(scan.meta.warnings ?? []));
   const fileTime = scan.meta.settings.timePerStep;
   const timePerStepS = typeof fileTime === "number" ? fileTime : form.timePerStepS;
   return {
@@ -164,6 +169,7 @@ function readScanFile(file: UploadedFile, form: ScanSettingsInput): ReadScan | F
     twoThetaEnd: end,
     stepDeg: step,
     pointCount: n,
+    requested: form.kAlpha2 && form.kAlpha2 !== "auto" ? { processing: { kAlpha2: { mode: kAlpha2Mode(form.kAlpha2) } } } : {},
   };
 }
 
@@ -238,7 +244,7 @@ async function storeScans(actor: Actor, projectId: string, items: { read: ReadSc
         await tx.insert(processingRuns).values({
           id: p.runId,
           scanId: p.scanId,
-          paramsJson: { requested: {} } satisfies RunParams as unknown as Record<string, unknown>,
+          paramsJson: { requested: p.read.requested } satisfies RunParams as unknown as Record<string, unknown>,
           softwareVersion: PIPELINE_VERSION,
           status: "queued",
           createdBy: actor.userId,

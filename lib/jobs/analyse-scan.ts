@@ -136,14 +136,16 @@ export const round = (x: number, digits: number) => {
 };
 const roundArray = (a: ArrayLike<number>, digits: number) => Array.from(a, (v) => round(v, digits));
 
-type ScanWavelength = { anode: string | null; wavelengthA: number; wavelength2A: number | null };
+type ScanWavelength = { anode: string | null; wavelengthA: number; wavelength2A: number | null; settingsJson?: unknown };
 
 /**
  * Parses and processes scan text with a run's parameters. The wavelength is the scan's (from the file or the
  * upload form) unless the run overrides it; it is never silently assumed.
  */
 export function processScanText(text: string, requested: ProcessParamsInput, scanRow: ScanWavelength) {
-  const parsed = parseScan(text);
+  // Read as at upload: the stored wavelength and time per step convert d columns and counts per second.
+  const time = (scanRow.settingsJson as { timePerStep?: unknown } | null | undefined)?.timePerStep;
+  const parsed = parseScan(text, { wavelength: scanRow.wavelengthA, countingTimeS: typeof time === "number" ? time : undefined });
   const req = requested.processing ?? {};
   const override = req.anode !== undefined || req.wavelength !== undefined;
   const params: ProcessParams = {

@@ -2,6 +2,14 @@ import { z } from "zod";
 import { ANODES, PHASE_STATUSES, REFERENCE_HAZARDS } from "@/lib/vocabulary";
 import { optionalText } from "./common";
 
+/** Upload-form choices for Kα2: decided from the peak shapes, or said by the analyst. */
+export const KALPHA2_CHOICES = ["auto", "present", "absent"] as const;
+
+/** The processing mode of an upload-form Kα2 choice. */
+export function kAlpha2Mode(choice: (typeof KALPHA2_CHOICES)[number] | undefined): "auto" | "yes" | "no" {
+  return choice === "present" ? "yes" : choice === "absent" ? "no" : "auto";
+}
+
 /** Multipart form values arrive as strings: "" means "not given". */
 const blankToUndefined = (v: unknown) => (typeof v === "string" && v.trim() === "" ? undefined : v);
 const formNumber = (label: string, min: number, max: number) =>
@@ -32,6 +40,8 @@ export const scanSettingsSchema = z.object({
   stepDeg: formNumber("Step", 0.0001, 5),
   timePerStepS: formNumber("Time per step (s)", 0.001, 3600),
   instrument: z.preprocess(blankToUndefined, z.string().trim().max(200, "At most 200 characters.").optional()),
+  /** Kα2 in the scan: decided from the peak shapes ("auto"), or said by the analyst. */
+  kAlpha2: z.preprocess(blankToUndefined, z.enum(KALPHA2_CHOICES, { error: "Kα2 must be auto, present or absent." }).optional()),
 });
 export type ScanSettingsInput = z.infer<typeof scanSettingsSchema>;
 
@@ -72,7 +82,14 @@ export const processParamsSchema = z
           })
           .strict()
           .optional(),
-        kAlpha2: z.object({ enabled: z.boolean().optional(), ratio: z.number().min(0).max(1).optional() }).strict().optional(),
+        kAlpha2: z
+          .object({
+            mode: z.enum(["auto", "yes", "no"], { error: "Kα2 mode must be auto, yes or no." }).optional(),
+            enabled: z.boolean().optional(),
+            ratio: z.number().min(0).max(1).optional(),
+          })
+          .strict()
+          .optional(),
         peaks: z
           .object({
             k: z.number().min(1, "Peak threshold k must be at least 1.").max(50).optional(),

@@ -1,6 +1,6 @@
 import { describe, expect, test } from "vitest";
 import { LIBRARY_PHASES } from "@/lib/science/minerals";
-import { codeTokens, hazardFromName, matchFilesToSamples, processParamsSchema, scanSettingsSchema, stripExtension } from "@/lib/validation/scan";
+import { codeTokens, hazardFromName, kAlpha2Mode, matchFilesToSamples, processParamsSchema, scanSettingsSchema, stripExtension } from "@/lib/validation/scan";
 
 const SAMPLES = [
   { id: "s12", code: "APR-000012" },
@@ -57,6 +57,15 @@ describe("upload settings and processing parameters", () => {
     const paths = bad.error!.issues.map((i) => i.path.join("."));
     expect(paths).toEqual(expect.arrayContaining(["wavelength", "anode"]));
     expect(scanSettingsSchema.parse({ wavelength: "1.78897", timePerStepS: "2" })).toEqual({ wavelength: 1.78897, timePerStepS: 2 });
+  });
+
+  test("Kα2 on the upload form: auto / present / absent, blank = auto; processing mode auto / yes / no", () => {
+    expect(scanSettingsSchema.parse({ kAlpha2: "" })).toEqual({});
+    for (const c of ["auto", "present", "absent"] as const) expect(scanSettingsSchema.parse({ kAlpha2: c })).toEqual({ kAlpha2: c });
+    expect(scanSettingsSchema.safeParse({ kAlpha2: "yes" }).success).toBe(false);
+    expect([kAlpha2Mode("present"), kAlpha2Mode("absent"), kAlpha2Mode("auto"), kAlpha2Mode(undefined)]).toEqual(["yes", "no", "auto", "auto"]);
+    expect(processParamsSchema.parse({ processing: { kAlpha2: { mode: "no" } } }).processing!.kAlpha2).toEqual({ mode: "no" });
+    expect(processParamsSchema.safeParse({ processing: { kAlpha2: { mode: "absent" } } }).success).toBe(false);
   });
 
   test("processing parameters: odd smoothing window, element symbols normalised, unknown keys refused", () => {
