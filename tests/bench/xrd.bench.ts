@@ -3,7 +3,8 @@
  *
  *   npm run bench:xrd            [-- --strict]   (--strict: exit 1 when a target is missed)
  *
- * Rows: parse + process of a 4,000-point scan; identification against the shipped library and against a synthetic
+ * Rows: parse + process of a 4,000-point scan, and of the same 2θ span at 16,000 and 64,000 points (linear growth
+ * expected); identification against the shipped library and against a synthetic
  * 10,000-phase library; pattern computation for a small cell (quartz) and a 300-atom cell (P1 2×1×1 supercell of
  * the shipped dravite), and the same with python3-gemmi (scripts/gemmi/time_pattern.py) where /usr/bin/python3 has
  * gemmi. Times are medians of repeated runs after a warm-up, in ms, on whatever machine runs it.
@@ -62,11 +63,32 @@ const scan = synthesizeScan({
 });
 const text = writeXy(scan);
 const points = scan.twoTheta.length;
-rows.push({ what: `parse + process, ${points}-point scan`, ms: time(() => processScan(parseScan(text)), 10, 2), target: 20 });
+const perPoint = (ms: number, n: number) => `${((ms / n) * 1000).toFixed(2)} µs/point`;
+const ms4k = time(() => processScan(parseScan(text)), 15, 3);
+rows.push({ what: `parse + process, ${points}-point scan`, ms: ms4k, target: 10, note: perPoint(ms4k, points) });
 {
   const parsed = parseScan(text);
-  rows.push({ what: "  of which parse (XY text)", ms: time(() => parseScan(text), 10, 2) });
-  rows.push({ what: "  of which process", ms: time(() => processScan(parsed), 10, 2) });
+  rows.push({ what: "  of which parse (XY text)", ms: time(() => parseScan(text), 15, 3) });
+  rows.push({ what: "  of which process", ms: time(() => processScan(parsed), 15, 3) });
+}
+// 1b. The same 2θ span and pattern at 4× and 16× finer steps: the windows in points (smoothing, SNIP, peak fits) grow
+// as 1/step, so linear cost means ~4× and ~16× the time of the 4,000-point row.
+for (const factor of [4, 16]) {
+  const fine = synthesizeScan({
+    phases: [
+      { pattern: findReferencePattern("quartz")!, weight: 60 },
+      { pattern: findReferencePattern("calcite")!, weight: 30 },
+      { pattern: findReferencePattern("kaolinite")!, weight: 10 },
+    ],
+    range: [5, 84.98 + 0.02 - 0.02 / factor],
+    step: 0.02 / factor,
+    zeroShift: 0.05,
+    seed: 2024,
+  });
+  const fineText = writeXy(fine);
+  const n = fine.twoTheta.length;
+  const ms = time(() => processScan(parseScan(fineText)), factor === 4 ? 7 : 5, 1);
+  rows.push({ what: `parse + process, ${n}-point scan (step ${0.02 / factor}°)`, ms, note: `${perPoint(ms, n)}; ${(ms / ms4k).toFixed(1)}× the ${points}-point time for ${(n / points).toFixed(0)}× the points` });
 }
 const processed = processScan(parseScan(text));
 const range: [number, number] = [scan.twoTheta[0], scan.twoTheta[points - 1]];

@@ -42,13 +42,14 @@ function isDecimal(s: string, decimalComma: boolean): boolean {
 const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
 
 /**
- * Fast path for the usual cell, `[-]digits[.digits]` with at most 15 significant digits and no exponent: the digits
- * as an integer (exact below 2⁵³) divided by an exact power of ten — one correctly rounded operation, so the result
- * equals `Number(s)`. Anything else returns NaN and goes the general way.
+ * Fast path for the usual cell, `[±]digits[.digits][e±digits]`: read in one pass. With at most 15 significant digits
+ * and no exponent the digits are an exact integer (below 2⁵³) divided by an exact power of ten — one correctly
+ * rounded operation, so the result equals `Number(s)`; longer cells are handed to `Number` once checked. Anything
+ * that is not such a decimal returns NaN and goes the general way (`readCell`).
  */
-function plainDecimal(s: string, decimalComma: boolean): number {
+export function plainDecimal(s: string, decimalComma = false): number {
   const n = s.length;
-  if (n === 0 || n > 17) return NaN;
+  if (n === 0) return NaN;
   let i = 0;
   let neg = false;
   let c = s.charCodeAt(0);
@@ -65,12 +66,29 @@ function plainDecimal(s: string, decimalComma: boolean): number {
       mant = mant * 10 + (c - 48);
       digits++;
     } else if (frac < 0 && (c === 46 || (decimalComma && c === 44))) frac = digits;
-    else return NaN;
+    else break;
   }
-  if (digits === 0 || digits > 15) return NaN;
-  const scale = frac < 0 ? 0 : digits - frac;
-  const v = scale === 0 ? mant : mant / POW10[scale];
-  return neg ? -v : v;
+  if (digits === 0) return NaN;
+  if (i === n && digits <= 15) {
+    const scale = frac < 0 ? 0 : digits - frac;
+    const v = scale === 0 ? mant : mant / POW10[scale];
+    return neg ? -v : v;
+  }
+  if (i < n) {
+    // Exponent: e or E, optional sign, at least one digit, then the end.
+    if (c !== 101 && c !== 69) return NaN;
+    i++;
+    c = s.charCodeAt(i);
+    if (c === 43 || c === 45) i++;
+    const start = i;
+    for (; i < n; i++) {
+      c = s.charCodeAt(i);
+      if (c < 48 || c > 57) return NaN;
+    }
+    if (i === start) return NaN;
+  }
+  const v = Number(decimalComma ? s.replace(",", ".") : s);
+  return Number.isFinite(v) ? v : NaN;
 }
 
 /**

@@ -4,7 +4,7 @@ import { mapColumns, splitXyHeader, classifyColumnName, type ColumnMap } from ".
 import { ScanParseError } from "./errors";
 import { applyHeaderLine, emptyMeta } from "./header";
 import { forEachLine, isCommentStart } from "./lines";
-import { CellKind, readCell } from "./numbers";
+import { CellKind, plainDecimal, readCell } from "./numbers";
 
 const FIELDS = ["twoTheta", "counts", "esd"] as const;
 /** Most columns read from a file whose header names them (extra named columns such as a calculated curve). */
@@ -132,6 +132,8 @@ export function parseXy(text: string, limits: ScanLimits): Scan {
 }
 
 function cellValue(cell: string, line: number, c: number, field: string): number {
+  const fast = plainDecimal(cell);
+  if (fast === fast) return fast; // the usual plain decimal (not NaN)
   const [kind, v] = readCell(cell);
   if (kind === CellKind.Number) return v;
   if (kind === CellKind.NotNumeric) {

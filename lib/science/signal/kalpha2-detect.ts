@@ -10,7 +10,8 @@ export interface DetectKAlpha2Options {
    */
   ratio?: number;
   /**
-   * Most peaks compared (the clearest isolated ones).
+   * Most peaks compared (the clearest isolated ones); the comparison stops earlier once two or more peaks agree
+   * beyond five times the margin.
    * @default 5
    */
   maxPeaks?: number;
@@ -132,6 +133,8 @@ export function detectKAlpha2(
   let total = 0;
   const guess = (q: DetectedPeak): PeakGuess => ({ twoTheta: q.twoTheta, height: q.height, fwhm: q.fwhm });
   for (const c of chosen) {
+    // Enough already: two or more peaks agreeing far beyond the margin settle it.
+    if (peaks.length >= 2 && Math.abs(total) >= 5 * margin && peaks.every((q) => Math.sign(q.deltaBic) === Math.sign(total))) break;
     const p = c.peak;
     const single: PeakGuess[] = [guess(p), ...c.neighbours.map(guess), ...c.companions.map(guess)];
     // Doublet start: an unresolved doublet's apex and width overstate Kα1's; the fit moves from there.

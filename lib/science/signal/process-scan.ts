@@ -204,7 +204,8 @@ function stepInfo(x: Float64Array): StepInfo {
     if (s < min) min = s;
     if (s > max) max = s;
   }
-  const median = d.sort()[(n - 1) >> 1];
+  // An even step (up to rounding of the written angles) needs no sort: every step is the median to 1e-9.
+  const median = max - min <= 1e-9 * max ? d[(n - 1) >> 1] : d.sort()[(n - 1) >> 1];
   const mean = (x[n - 1] - x[0]) / (n - 1);
   let uneven = false;
   for (let i = 1; i < n - 1 && !uneven; i++) if (Math.abs(x[i] - (x[0] + i * mean)) > 0.5 * mean) uneven = true;

@@ -58,7 +58,8 @@ export function savitzkyGolayNoiseGain(windowSize = 5, polynomial = 2): number {
  * (then smoothing should be skipped).
  */
 export function windowForFwhm(fwhmPoints: number): number {
-  let w = Math.floor(fwhmPoints);
+  // A ratio like 0.1° / 0.019999999999999574° is 5 points, not 4.99…: rounding of the step must not drop a point.
+  let w = Math.floor(fwhmPoints + 1e-9);
   if (w % 2 === 0) w -= 1;
   return w >= 5 ? w : 0;
 }

@@ -5,7 +5,7 @@
  */
 import { describe, expect, test } from "vitest";
 import { parseScan } from "@/lib/science/scan";
-import { processScan } from "@/lib/science/signal";
+import { processScan, windowForFwhm } from "@/lib/science/signal";
 import type { Scan } from "@/lib/science/types";
 import { kAlpha2Angle, mulberry32, poisson, pv, synthScan } from "./synthetic";
 
@@ -94,6 +94,10 @@ describe("fine steps: windows in points grow as 1/step, the filters' cost does n
       worst = Math.max(worst, Math.abs(r.background[i] - background[i]) / Math.sqrt(background[i]));
     }
     expect(worst).toBeLessThan(4);
+  });
+  test("a step that is 0.02° up to floating-point rounding still gives the 5-point window for a 0.1° FWHM", () => {
+    expect(windowForFwhm(0.1 / 0.020000000000000018)).toBe(5);
+    expect(windowForFwhm(0.1 / 0.019999999999999574)).toBe(5);
   });
   test("a 0.02° scan keeps the published SNIP on every point (no block means)", () => {
     const { scan } = synthScan({ start: 15, step: 0.02, points: 2600, ratio: 0.5, background: bg, peaks: TRUTH, seed: 4 });
