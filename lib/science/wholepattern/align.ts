@@ -22,6 +22,11 @@ export interface Alignment {
    * lines lands on peaks by chance far more easily than one with thirty.
    */
   z: number;
+  /**
+   * Matched-filter projection of the whitened signal on the candidate's stick pattern, (Σ I·y/σ)² / ΣI²: roughly
+   * the χ² the candidate alone would explain. Ranks major phases with few lines that the z-score undervalues.
+   */
+  projection: number;
 }
 
 /**
@@ -31,6 +36,8 @@ export interface Alignment {
 export interface SignalMap {
   x: Float64Array;
   support: Float64Array;
+  /** Signal in σ units, clipped at 0. */
+  whitened: Float64Array;
   chance: number;
   /** Grid start and step when the grid is uniform (index by arithmetic), else null (binary search). */
   uniform: { x0: number; step: number } | null;
@@ -39,18 +46,20 @@ export interface SignalMap {
 export function signalMap(x: Float64Array, signal: Float64Array, sigma: Float64Array): SignalMap {
   const n = x.length;
   const support = new Float64Array(n);
+  const whitened = new Float64Array(n);
   let s = 0;
   for (let i = 0; i < n; i++) {
-    support[i] = Math.max(0, Math.min(1, signal[i] / (3 * sigma[i])));
+    whitened[i] = Math.max(0, signal[i] / sigma[i]);
+    support[i] = Math.min(1, whitened[i] / 3);
     s += support[i];
   }
   const step = (x[n - 1] - x[0]) / (n - 1);
   let uniform = true;
   for (let i = 1; i < n && uniform; i++) if (Math.abs(x[i] - x[i - 1] - step) > 0.01 * step) uniform = false;
-  return { x, support, chance: s / n, uniform: uniform ? { x0: x[0], step } : null };
+  return { x, support, whitened, chance: s / n, uniform: uniform ? { x0: x[0], step } : null };
 }
 
-function supportAt(m: SignalMap, v: number): number {
+function valueAt(m: SignalMap, arr: Float64Array, v: number): number {
   const x = m.x;
   const n = x.length;
   let i: number;
@@ -67,7 +76,7 @@ function supportAt(m: SignalMap, v: number): number {
   }
   if (i <= 0 || i >= n) return 0;
   const t = (v - x[i - 1]) / (x[i] - x[i - 1]);
-  return m.support[i - 1] + t * (m.support[i] - m.support[i - 1]);
+  return arr[i - 1] + t * (arr[i] - arr[i - 1]);
 }
 
 /**
@@ -94,7 +103,7 @@ export function alignCandidate(map: SignalMap, lines: PhaseLines, g: GlobalProfi
       const I = weight[k];
       total += I;
       total2 += I * I;
-      hit += I * supportAt(map, pos);
+      hit += I * valueAt(map, map.support, pos);
     }
     return { cov: total > 0 ? hit / total : 0, total, total2 };
   };
@@ -118,5 +127,17 @@ export function alignCandidate(map: SignalMap, lines: PhaseLines, g: GlobalProfi
   for (let c = center - coarse; c <= center + coarse + 1e-12; c += coarse / 4) if (Math.abs(c - 1) <= limit + 1e-12) tryScale(c);
   const p0 = Math.min(0.95, Math.max(0.02, map.chance));
   const nLines = best.total2 > 0 ? (best.total * best.total) / best.total2 : 0;
-  return { cellScale: bestC, coverage: best.cov, z: ((best.cov - p0) * Math.sqrt(nLines)) / Math.sqrt(p0 * (1 - p0)) };
+  let proj = 0;
+  for (let k = 0; k < order.length; k++) {
+    const sn = sinAt1[k] / bestC;
+    if (!(sn < 1)) continue;
+    const pos = 2 * Math.asin(sn) * DEG + g.zeroShift;
+    if (pos >= lo && pos <= hi) proj += weight[k] * valueAt(map, map.whitened, pos);
+  }
+  return {
+    cellScale: bestC,
+    coverage: best.cov,
+    z: ((best.cov - p0) * Math.sqrt(nLines)) / Math.sqrt(p0 * (1 - p0)),
+    projection: best.total2 > 0 ? (proj * proj) / best.total2 : 0,
+  };
 }

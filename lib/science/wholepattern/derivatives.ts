@@ -4,6 +4,7 @@
  * displacement term, the Caglioti width and the March–Dollase factor of Dollase 1986).
  */
 import { marchDollase } from "@/lib/science/crystal/preferred-orientation";
+import { forgetSegments } from "./nnls";
 import type { PhaseLines } from "./phase-lines";
 import { cagliotiFwhm, linePosition, lowerBound } from "./profile";
 import type { GlobalProfile, PhaseProfileParams } from "./types";
@@ -12,7 +13,7 @@ const DEG = 180 / Math.PI;
 const LN2 = Math.LN2;
 const CG = 2 * Math.sqrt(LN2 / Math.PI);
 const CL = 2 / Math.PI;
-const TAIL_FWHM = 12;
+const TAIL_FWHM = 10;
 const GAUSS_FWHM = 3;
 
 /** Profile and derivatives of one phase, each the length of the grid. */
@@ -60,6 +61,7 @@ function dLnMarch(cosAlpha: number, r: number): number {
  */
 export function renderPhaseWithDerivatives(x: Float64Array, lines: PhaseLines, g: GlobalProfile, p: PhaseProfileParams, out: PhaseRender): void {
   const n = x.length;
+  forgetSegments(out.value);
   for (const a of [out.value, out.dZero, out.dDisp, out.dEta, out.dCell, out.dLnWidth, out.dLnR]) a?.fill(0);
   let spanLo = n;
   let spanHi = -1;

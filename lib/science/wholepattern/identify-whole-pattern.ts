@@ -43,6 +43,12 @@ const MIN_ALONE_LINES = 2;
 const NO_OWN_LINES = -1e9;
 /** Selected phases whose unit profiles correlate above this are one phase to a pattern (merged in the report). */
 const LOOKALIKE_COSINE = 0.8;
+/** Look-alike phases refitted in place of each selected phase, at most. */
+const MAX_LOOKALIKES = 4;
+/** Prior standard deviation of the cell scale (relative), used only to choose between equally good look-alikes. */
+const CELL_PRIOR = 0.005;
+/** Groups tried exactly (NNLS) at each forward step, after the single-column prescreen. */
+const EXACT_TRIES = 8;
 /** Number of background-correction columns (Chebyshev T0…T3, each with both signs). */
 const BACKGROUND_TERMS = 4;
 
@@ -53,6 +59,7 @@ interface Candidate {
   params: PhaseProfileParams;
   coverage: number;
   z: number;
+  projection: number;
 }
 
 function cachedIndex(library: readonly ReferencePattern[]): StrongLineIndex {
@@ -92,9 +99,12 @@ function resolutionElements(x: Float64Array, g: GlobalProfile): number {
   return Math.max(n, 10);
 }
 
+/** Profile tails of the selection columns, in FWHM (short tails keep the columns sparse; the refinement uses full ones). */
+const SELECTION_TAIL = 6;
+
 function render(x: Float64Array, c: { lines: PhaseLines; params: PhaseProfileParams }, g: GlobalProfile): Float64Array {
   const out = new Float64Array(x.length);
-  renderPhase(x, c.lines, g, c.params, out);
+  renderPhase(x, c.lines, g, c.params, out, 1, SELECTION_TAIL);
   return out;
 }
 
@@ -140,12 +150,25 @@ function forwardSelect(
   const steps: Selection["steps"] = [];
   const lastTried = new Map<number, number>();
   const lnN = Math.log(nEff);
+  let x = nnlsFromGram(G, n, b, yty, base).x;
+  let activeNow = base;
   while (chosen.length < maxAdd) {
     let best = -1;
     let bestChi = Infinity;
     const active = base.concat(...chosen.map((c) => groupCols[c]));
-    for (let c = 0; c < groups.length; c++) {
-      if (chosen.includes(c)) continue;
+    // Prescreen: the best single column of each group against the current residual, gᵢ = bᵢ − (G·x)ᵢ, gives the
+    // χ² drop max(0, gᵢ)²/Gᵢᵢ; only the most promising groups get the exact NNLS.
+    const gain = (i: number) => {
+      let g = b[i];
+      activeNow.forEach((j, k) => (g -= G[i * n + j] * x[k]));
+      return g > 0 ? (g * g) / Math.max(G[i * n + i], 1e-300) : 0;
+    };
+    const ranked = groups
+      .map((_, c) => c)
+      .filter((c) => !chosen.includes(c))
+      .map((c) => ({ c, drop: Math.max(...groupCols[c].map(gain)) }))
+      .sort((p, q) => q.drop - p.drop);
+    for (const { c } of ranked.slice(0, EXACT_TRIES)) {
       const chi2 = nnlsFromGram(G, n, b, yty, active.concat(groupCols[c])).chi2;
       const k = groupCols[c].length + 1;
       lastTried.set(c, nEff * Math.log(current / Math.max(chi2, 1e-300)) - k * lnN);
@@ -160,6 +183,8 @@ function forwardSelect(
     chosen.push(best);
     steps.push({ candidate: best, deltaBic: delta });
     current = bestChi;
+    activeNow = base.concat(...chosen.map((c) => groupCols[c]));
+    x = nnlsFromGram(G, n, b, yty, activeNow).x;
   }
   return { chosen, steps, lastTried };
 }
@@ -202,7 +227,7 @@ function smoothNet(y: Float64Array, half: number): Float64Array {
  */
 export function identifyWholePattern(processed: ProcessedScan, library: readonly ReferencePattern[], options: WholePatternOptions = {}): WholePatternResult {
   const started = performance.now();
-  const { maxPhases = 8, maxCandidates = 40, minDeltaBic = 10, maxIterations = 40 } = options;
+  const { maxPhases = 8, maxCandidates = 40, minDeltaBic = 10, maxIterations = 25 } = options;
   const x = processed.twoTheta;
   const n = x.length;
   if (n < 20) throw new RangeError("a whole-pattern fit needs at least 20 points");
@@ -250,7 +275,7 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
       const ref = library[index];
       const lines = phaseLines(ref, global.wavelength, range);
       const a = alignCandidate(map, lines, global);
-      return { index, ref, lines, params: { ...initialParams(ref), cellScale: a.cellScale }, coverage: a.coverage, z: a.z };
+      return { index, ref, lines, params: { ...initialParams(ref), cellScale: a.cellScale }, coverage: a.coverage, z: a.z, projection: a.projection };
     });
   } else {
     const strongest = processed.peaks
@@ -269,17 +294,25 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
           dRange,
         })
       : [];
-    shortlist = found
+    const aligned = found
       .filter((r) => usable(library[r]))
       .map((index) => {
         const ref = library[index];
         const lines = phaseLines(ref, global.wavelength, range);
         const a = alignCandidate(map, lines, global);
-        return { index, ref, lines, params: { ...initialParams(ref), cellScale: a.cellScale }, coverage: a.coverage, z: a.z };
+        return { index, ref, lines, params: { ...initialParams(ref), cellScale: a.cellScale }, coverage: a.coverage, z: a.z, projection: a.projection };
       })
-      .filter((c) => c.lines.count > 0 && c.z >= 1)
-      .sort((a, b) => b.z - a.z)
-      .slice(0, maxCandidates);
+      .filter((c) => c.lines.count > 0 && c.coverage >= 0.4);
+    // Two rankings for recall: lines on signal beyond chance (many-line phases) and explained signal (major
+    // phases with few lines).
+    const byZ = aligned.slice().sort((a, b) => b.z - a.z);
+    const byProjection = aligned.slice().sort((a, b) => b.projection - a.projection);
+    const picked = new Set<Candidate>();
+    for (let k = 0; picked.size < Math.min(maxCandidates, aligned.length); k++) {
+      if (byZ[k]) picked.add(byZ[k]);
+      if (byProjection[k] && picked.size < maxCandidates) picked.add(byProjection[k]);
+    }
+    shortlist = [...picked];
   }
 
   // 2. Forward selection (or the analyst's phases).
@@ -334,23 +367,35 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
     }
   }
 
-  // Among phases a pattern cannot tell apart, keep the one whose cell needs the least change (the cell is what
-  // separates members of an isostructural series), if the fit stays as good.
-  if (!forced) {
-    for (let k = 0; k < fit.phases.length; k++) {
-      const inFit = new Set(fit.phases.map((p) => p.lines.ref.id));
-      const alike = lookalikes(data, fit, k, shortlist.filter((c) => !inFit.has(c.ref.id)), nEff, minDeltaBic);
-      const own = Math.abs(fit.phases[k].params.cellScale - 1);
-      const better = alike.filter((c) => Math.abs(c.params.cellScale - 1) + 0.002 < own).sort((a, b) => Math.abs(a.params.cellScale - 1) - Math.abs(b.params.cellScale - 1))[0];
-      if (!better) continue;
-      const swapped = fit.phases.map((p, j) => (j === k ? toFit(better) : p));
-      const trial = refineFit(data, swapped, fit.global, { maxIterations });
-      if (nEff * Math.log(trial.chi2 / Math.max(fit.chi2, 1e-300)) < minDeltaBic) {
-        tried.set(chosen[k].index, 0);
-        chosen = chosen.map((c, j) => (j === k ? better : c));
-        fit = trial;
-      }
+  // Look-alikes: library phases whose strongest lines fall on this phase's lines at one d ratio are refitted in its
+  // place. The best fit is kept (with a Gaussian prior of σ = 0.5 % on the cell scale, so that between equal fits
+  // the member whose own cell matches wins); those within the ΔBIC threshold are reported as alternatives.
+  const alternativesOf = new Map<string, { referenceId: string; mineral: string }[]>();
+  for (let k = 0; k < fit.phases.length; k++) {
+    const inFit = new Set(fit.phases.map((p) => p.lines.ref.id));
+    const self = fit.phases[k];
+    const others = shortlist.filter((c) => !inFit.has(c.ref.id) && sharesLines(c.lines, self.lines, self.params.cellScale)).slice(0, MAX_LOOKALIKES);
+    if (others.length === 0) continue;
+    const score = (ev: FitEvaluation, j: number) => nEff * Math.log(Math.max(ev.chi2, 1e-300)) + ((ev.phases[j].params.cellScale - 1) / CELL_PRIOR) ** 2;
+    const trials = others.map((c) => {
+      const cellScale = self.params.cellScale * (self.lines.d[0] && c.lines.count ? bestRatio(c.lines, self.lines) : 1);
+      const swapped = fit.phases.map((p, j) => (j === k ? { lines: c.lines, params: { ...self.params, cellScale: Math.min(1.015, Math.max(0.985, cellScale)), marchR: c.lines.cosAlpha ? (self.params.marchR ?? 1) : null } } : p));
+      const ev = refineFit(data, swapped, fit.global, { maxIterations: 12 });
+      return { c, ev, s: score(ev, k) };
+    });
+    const ownScore = score(fit, k);
+    const best = trials.reduce((m, t) => (t.s < m.s ? t : m), { c: null as Candidate | null, ev: fit, s: ownScore });
+    const bestScore = best.s;
+    const alike = [
+      ...(best.c ? [{ referenceId: self.lines.ref.id, mineral: self.lines.ref.mineral, s: ownScore }] : []),
+      ...trials.filter((t) => t !== best).map((t) => ({ referenceId: t.c.ref.id, mineral: t.c.ref.mineral, s: t.s })),
+    ].filter((t) => t.s - bestScore < minDeltaBic);
+    if (best.c) {
+      tried.set(chosen[k].index, 0);
+      chosen = chosen.map((c, j) => (j === k ? best.c! : c));
+      fit = best.ev;
     }
+    alternativesOf.set(fit.phases[k].lines.ref.id, alike.map(({ referenceId, mineral }) => ({ referenceId, mineral })));
   }
 
   // 4. Report.
@@ -398,9 +443,7 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
   });
   // Phases a pattern cannot tell apart from the chosen one.
   const chosenIds = new Set(phases.map((p) => p.referenceId));
-  phases.forEach((ph, k) => {
-    ph.alternatives = lookalikes(data, fit, k, shortlist.filter((c) => !chosenIds.has(c.ref.id)), nEff, minDeltaBic).map((c) => ({ referenceId: c.ref.id, mineral: c.ref.mineral }));
-  });
+  for (const ph of phases) ph.alternatives = (alternativesOf.get(ph.referenceId) ?? []).filter((a) => !chosenIds.has(a.referenceId));
   const reported = mergeLookalikes(phases, fit, data);
 
   const notes: string[] = [];
@@ -542,6 +585,52 @@ function mergeLookalikes(phases: FittedPhase[], fit: FitEvaluation, data: FitDat
   return out.sort((a, b) => (b.wtPercent ?? 0) - (a.wtPercent ?? 0));
 }
 
+/** The d ratio at which candidate c's strongest lines best fall on phase p's lines (1 when none). */
+function bestRatio(c: PhaseLines, p: PhaseLines): number {
+  const top = Array.from({ length: c.count }, (_, j) => j)
+    .sort((a, b) => c.intensity[b] - c.intensity[a])
+    .slice(0, 8);
+  let best = 1;
+  let bestHit = -1;
+  for (const j of top)
+    for (let i = 0; i < p.count; i++) {
+      const r = p.d[i] / c.d[j];
+      if (Math.abs(r - 1) > 0.016 || p.intensity[i] < 3) continue;
+      let hit = 0;
+      for (const q of top) for (let t = 0; t < p.count; t++) if (Math.abs(p.d[t] / (c.d[q] * r) - 1) <= 0.003) {
+        hit += c.intensity[q];
+        break;
+      }
+      if (hit > bestHit) {
+        bestHit = hit;
+        best = r;
+      }
+    }
+  return best;
+}
+
+/**
+ * Cheap test before a look-alike fit: do the candidate's strongest lines fall on the phase's lines at one common
+ * d ratio (within the ±1.5 % cell freedom)? At least 70 % of the candidate's strongest-line intensity must match.
+ */
+function sharesLines(c: PhaseLines, p: PhaseLines, pCell: number): boolean {
+  const top = Array.from({ length: c.count }, (_, j) => j)
+    .sort((a, b) => c.intensity[b] - c.intensity[a])
+    .slice(0, 8);
+  const pd: number[] = [];
+  for (let j = 0; j < p.count; j++) if (p.intensity[j] >= 3) pd.push(p.d[j] * pCell);
+  const total = top.reduce((s, j) => s + c.intensity[j], 0);
+  if (!(total > 0) || pd.length === 0) return false;
+  const ratios: number[] = [];
+  for (const j of top) for (const d of pd) if (Math.abs(d / c.d[j] - 1) <= 0.016) ratios.push(d / c.d[j]);
+  for (const r of ratios) {
+    let hit = 0;
+    for (const j of top) if (pd.some((d) => Math.abs(d / (c.d[j] * r) - 1) <= 0.003)) hit += c.intensity[j];
+    if (hit >= 0.7 * total) return true;
+  }
+  return false;
+}
+
 /** Phase k's scaled contribution on the grid. */
 function phaseProfile(fit: FitEvaluation, k: number): Float64Array {
   const r = fit.renders[k];
@@ -593,30 +682,3 @@ function rirCrossCheck(fit: FitEvaluation, processed: ProcessedScan, profiles: F
   return est.map((v) => round((100 * v!) / total, 1));
 }
 
-/**
- * Candidates that fit phase k's share of the profile as well as phase k does: aligned on the profile without k,
- * fitted with their selection columns, and not worse by the ΔBIC threshold.
- */
-function lookalikes(data: FitData, fit: FitEvaluation, k: number, others: Candidate[], nEff: number, minDeltaBic: number): Candidate[] {
-  const n = data.x.length;
-  const target = new Float64Array(n);
-  const own = fit.renders[k];
-  for (let i = 0; i < n; i++) target[i] = data.y[i] - fit.calc[i] + fit.scales[k] * own.value[i];
-  const bg = data.backgroundPairs;
-  const ownCols = [own.value];
-  const base = gramSystem([...bg, ...ownCols], target, data.w);
-  const ownChi = nnlsFromGram(base.G, bg.length + 1, base.b, base.yty, [...Array(bg.length + 1).keys()]).chi2;
-  const map = signalMap(data.x, smoothNet(target, 1), data.w.map((v) => 1 / Math.sqrt(v)));
-  const out: Candidate[] = [];
-  for (const c of others) {
-    const a = alignCandidate(map, c.lines, fit.global);
-    if (a.coverage < 0.5) continue;
-    const cand: Candidate = { ...c, params: { ...c.params, cellScale: a.cellScale, widthFactor: fit.phases[k].params.widthFactor } };
-    const cols = selectionColumns(data.x, cand, fit.global);
-    const sys = gramSystem([...bg, ...cols], target, data.w);
-    const chi = nnlsFromGram(sys.G, bg.length + cols.length, sys.b, sys.yty, [...Array(bg.length + cols.length).keys()]).chi2;
-    const penalty = (cols.length - 1) * Math.log(nEff);
-    if (nEff * Math.log(chi / Math.max(ownChi, 1e-300)) + penalty < minDeltaBic) out.push(cand);
-  }
-  return out;
-}

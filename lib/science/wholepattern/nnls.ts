@@ -52,38 +52,100 @@ export function nnlsFromGram(G: Float64Array, n: number, b: Float64Array, yty: n
   return { x, chi2: Math.max(chi2, 0) };
 }
 
+/** Columns registered as the negation of another (background terms used with both signs). */
+const mirrors = new WeakMap<Float64Array, Float64Array>();
+/** Non-zero index segments of a column, cached (columns are rendered once and reused across many systems). */
+const segmentCache = new WeakMap<Float64Array, Int32Array>();
+
+/** A column holding −source, known to the Gram builder so its products are taken from the source's. */
+export function mirroredColumn(source: Float64Array): Float64Array {
+  const neg = source.map((v) => -v);
+  mirrors.set(neg, source);
+  return neg;
+}
+
+/** Forget the cached segments of a column whose values are about to be rewritten in place. */
+export function forgetSegments(c: Float64Array): void {
+  segmentCache.delete(c);
+}
+
+/** [lo₀, hi₀, lo₁, hi₁, …]: maximal runs of non-zero values (inclusive). */
+function segments(c: Float64Array): Int32Array {
+  let s = segmentCache.get(c);
+  if (s) return s;
+  const out: number[] = [];
+  const n = c.length;
+  let i = 0;
+  while (i < n) {
+    while (i < n && c[i] === 0) i++;
+    if (i >= n) break;
+    const lo = i;
+    while (i < n && c[i] !== 0) i++;
+    out.push(lo, i - 1);
+  }
+  s = Int32Array.from(out);
+  segmentCache.set(c, s);
+  return s;
+}
+
+function weightedDot(a: Float64Array, sa: Int32Array, b: Float64Array, sb: Int32Array, w: Float64Array): number {
+  let t = 0;
+  let i = 0;
+  let j = 0;
+  while (i < sa.length && j < sb.length) {
+    const lo = Math.max(sa[i], sb[j]);
+    const hi = Math.min(sa[i + 1], sb[j + 1]);
+    for (let k = lo; k <= hi; k++) t += w[k] * a[k] * b[k];
+    if (sa[i + 1] < sb[j + 1]) i += 2;
+    else j += 2;
+  }
+  return t;
+}
+
 /**
- * Gram system of dense columns: G = AᵀWA, b = AᵀWy, yᵀWy. Each column is scanned only over its non-zero span.
+ * Gram system of the columns: G = AᵀWA, b = AᵀWy, yᵀWy. Products run only over the columns' non-zero segments,
+ * and a column made by {@link mirroredColumn} reuses its source's products with the sign flipped.
  */
 export function gramSystem(columns: readonly Float64Array[], y: Float64Array, w: Float64Array): { G: Float64Array; b: Float64Array; yty: number } {
   const n = columns.length;
   const len = y.length;
-  const spans = columns.map((c) => {
-    let lo = 0;
-    while (lo < len && c[lo] === 0) lo++;
-    let hi = len - 1;
-    while (hi >= lo && c[hi] === 0) hi--;
-    return [lo, hi] as const;
+  // Canonical (unique) columns and the sign of each input column.
+  const uniq: Float64Array[] = [];
+  const slot = new Map<Float64Array, number>();
+  const of = new Int32Array(n);
+  const sign = new Float64Array(n);
+  columns.forEach((c, i) => {
+    const src = mirrors.get(c);
+    const base = src ?? c;
+    let k = slot.get(base);
+    if (k === undefined) {
+      k = uniq.length;
+      uniq.push(base);
+      slot.set(base, k);
+    }
+    of[i] = k;
+    sign[i] = src ? -1 : 1;
   });
-  const G = new Float64Array(n * n);
-  const b = new Float64Array(n);
+  const u = uniq.length;
+  const segs = uniq.map(segments);
+  const Gu = new Float64Array(u * u);
+  const bu = new Float64Array(u);
+  const allY = Int32Array.of(0, len - 1);
   let yty = 0;
   for (let i = 0; i < len; i++) yty += w[i] * y[i] * y[i];
-  for (let p = 0; p < n; p++) {
-    const cp = columns[p];
-    const [lp, hp] = spans[p];
-    let s = 0;
-    for (let i = lp; i <= hp; i++) s += w[i] * cp[i] * y[i];
-    b[p] = s;
-    for (let q = p; q < n; q++) {
-      const cq = columns[q];
-      const lo = Math.max(lp, spans[q][0]);
-      const hi = Math.min(hp, spans[q][1]);
-      let t = 0;
-      for (let i = lo; i <= hi; i++) t += w[i] * cp[i] * cq[i];
-      G[p * n + q] = t;
-      G[q * n + p] = t;
+  for (let p = 0; p < u; p++) {
+    bu[p] = weightedDot(uniq[p], segs[p], y, allY, w);
+    for (let q = p; q < u; q++) {
+      const t = weightedDot(uniq[p], segs[p], uniq[q], segs[q], w);
+      Gu[p * u + q] = t;
+      Gu[q * u + p] = t;
     }
+  }
+  const G = new Float64Array(n * n);
+  const b = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    b[i] = sign[i] * bu[of[i]];
+    for (let j = 0; j < n; j++) G[i * n + j] = sign[i] * sign[j] * Gu[of[i] * u + of[j]];
   }
   return { G, b, yty };
 }

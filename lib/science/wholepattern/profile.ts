@@ -13,8 +13,8 @@ const RAD = Math.PI / 180;
 const LN2x4 = 4 * Math.LN2;
 const CG = 2 * Math.sqrt(Math.LN2 / Math.PI);
 const CL = 2 / Math.PI;
-/** Profile tails are cut at this many FWHM (the Lorentzian area beyond ±12 H is about 2.7 % of η). */
-const TAIL_FWHM = 12;
+/** Profile tails are cut at this many FWHM (the Lorentzian area beyond ±10 H is about 3.2 % of η). */
+const TAIL_FWHM = 10;
 /** The Gaussian part is negligible (< 1e-11 of its peak) beyond ±3 H. */
 const GAUSS_FWHM = 3;
 
@@ -38,16 +38,16 @@ export function lowerBound(x: ArrayLike<number>, v: number): number {
   return lo;
 }
 
-function addLine(x: ArrayLike<number>, out: Float64Array, pos: number, area: number, h: number, eta: number): void {
-  const lo = lowerBound(x, pos - TAIL_FWHM * h);
-  const hiV = pos + TAIL_FWHM * h;
+function addLine(x: ArrayLike<number>, out: Float64Array, pos: number, area: number, h: number, eta: number, tail: number): void {
+  const lo = lowerBound(x, pos - tail * h);
+  const hiV = pos + tail * h;
   const gAmp = ((1 - eta) * CG * area) / h;
   const lAmp = (eta * CL * area) / h;
   const inv2 = 1 / (h * h);
   const gLim = GAUSS_FWHM * GAUSS_FWHM * h * h;
   for (let i = lo; i < x.length; i++) {
     const u = x[i] - pos;
-    if (u > hiV - pos) break;
+    if (x[i] > hiV) break;
     const u2 = u * u;
     let v = lAmp / (1 + 4 * u2 * inv2);
     if (u2 < gLim) v += gAmp * Math.exp(-LN2x4 * u2 * inv2);
@@ -66,7 +66,8 @@ export function linePosition(d: number, wavelength: number, g: Pick<GlobalProfil
 
 /**
  * Add `scale` × the phase's calculated profile to `out` (same length as `x`). Intensities are the reference's
- * relative values, so `scale` is in counts·° per unit of relative intensity.
+ * relative values, so `scale` is in counts·° per unit of relative intensity. `tailFwhm` cuts each line that many
+ * FWHM from its centre (shorter tails make sparser columns for the selection stage).
  */
 export function renderPhase(
   x: ArrayLike<number>,
@@ -75,6 +76,7 @@ export function renderPhase(
   p: PhaseProfileParams,
   out: Float64Array,
   scale = 1,
+  tailFwhm = TAIL_FWHM,
 ): void {
   const lo = x[0];
   const hi = x[x.length - 1];
@@ -86,11 +88,11 @@ export function renderPhase(
     const k1 = linePosition(d, g.wavelength, g);
     if (!Number.isFinite(k1.twoTheta)) continue;
     const h = p.widthFactor * cagliotiFwhm(g.caglioti, k1.theta);
-    if (k1.twoTheta + TAIL_FWHM * h >= lo && k1.twoTheta - TAIL_FWHM * h <= hi) addLine(x, out, k1.twoTheta, area, h, g.eta);
+    if (k1.twoTheta + tailFwhm * h >= lo && k1.twoTheta - tailFwhm * h <= hi) addLine(x, out, k1.twoTheta, area, h, g.eta, tailFwhm);
     if (g.wavelength2 !== null && g.ka2Ratio > 0) {
       const k2 = linePosition(d, g.wavelength2, g);
-      if (Number.isFinite(k2.twoTheta) && k2.twoTheta - TAIL_FWHM * h <= hi && k2.twoTheta + TAIL_FWHM * h >= lo)
-        addLine(x, out, k2.twoTheta, area * g.ka2Ratio, h, g.eta);
+      if (Number.isFinite(k2.twoTheta) && k2.twoTheta - tailFwhm * h <= hi && k2.twoTheta + tailFwhm * h >= lo)
+        addLine(x, out, k2.twoTheta, area * g.ka2Ratio, h, g.eta, tailFwhm);
     }
   }
 }

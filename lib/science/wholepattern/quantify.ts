@@ -59,7 +59,6 @@ export function hillHoward(phases: readonly QuantPhase[]): QuantResult {
   const wt = factors.map((x) => (x && total > 0 ? (100 * x.factor) / total : null));
   const sigma = factors.map((x, i) => {
     if (!x || !(total > 0)) return null;
-    const perScale = phases[i].scale > 0 ? x.factor / phases[i].scale : 0;
     // ∂W_i/∂a_j = (δ_ij·T − a_i)/T²; σ(a_j) = perScale_j·σ(s_j)
     let v = 0;
     factors.forEach((y, j) => {

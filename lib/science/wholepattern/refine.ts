@@ -10,7 +10,7 @@
  */
 import { Matrix, solve } from "ml-matrix";
 import { emptyRender, renderPhaseWithDerivatives, type PhaseRender } from "./derivatives";
-import { gramInverse, gramSystem, nnlsFromGram } from "./nnls";
+import { gramInverse, gramSystem, mirroredColumn, nnlsFromGram } from "./nnls";
 import type { PhaseLines } from "./phase-lines";
 import type { GlobalProfile, PhaseProfileParams } from "./types";
 
@@ -35,7 +35,7 @@ export interface FitData {
 
 /** Fit data with the signed background pairs precomputed. */
 export function fitData(x: Float64Array, y: Float64Array, w: Float64Array, background: readonly Float64Array[]): FitData {
-  return { x, y, w, background, backgroundPairs: background.flatMap((c) => [c, c.map((v) => -v)]) };
+  return { x, y, w, background, backgroundPairs: background.flatMap((c) => [c, mirroredColumn(c)]) };
 }
 
 /** A fit evaluated at one set of non-linear parameters. */
@@ -180,7 +180,7 @@ function parameters(phases: FitPhase[], opts: Required<RefineOptions>): Param[] 
  */
 export function refineFit(data: FitData, start: FitPhase[], global: GlobalProfile, options: RefineOptions = {}): FitEvaluation & { iterations: number } {
   const opts: Required<RefineOptions> = {
-    maxIterations: options.maxIterations ?? 40,
+    maxIterations: options.maxIterations ?? 25,
     zeroShift: options.zeroShift ?? true,
     displacement: options.displacement ?? false,
     eta: options.eta ?? true,
@@ -231,12 +231,13 @@ export function refineFit(data: FitData, start: FitPhase[], global: GlobalProfil
       });
       const trial = evaluateFit(data, phases, g, spare);
       if (trial.chi2 < cur.chi2) {
-        const gain = (cur.chi2 - trial.chi2) / cur.chi2;
+        // Improvement in units of the reduced χ²: below one unit the change means nothing statistically.
+        const gain = (cur.chi2 - trial.chi2) / Math.max(cur.chi2 / Math.max(1, n - P), 1e-300);
         spare = cur.renders;
         cur = trial;
         lambda = Math.max(lambda / 4, 1e-7);
         accepted = true;
-        if (gain < 1e-5) it = opts.maxIterations;
+        if (gain < 1) it = opts.maxIterations;
       } else {
         spare = trial.renders;
         lambda *= 6;

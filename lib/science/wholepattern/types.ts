@@ -138,7 +138,7 @@ export interface WholePatternOptions {
   minDeltaBic?: number;
   /** Internal standard of known weight (Chung 1974): its reference id and wt% of the spiked specimen. */
   internalStandard?: { referenceId: string; wtPercent: number };
-  /** Limit on the Levenberg–Marquardt iterations of each refinement. @default 40 */
+  /** Limit on the Levenberg–Marquardt iterations of each refinement. @default 25 */
   maxIterations?: number;
 }
 
