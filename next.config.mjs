@@ -13,7 +13,11 @@ const nextConfig = {
   serverExternalPackages: ["exifr", "pdfkit", "piscina"],
   poweredByHeader: false,
   async headers() {
-    return [{ source: "/:path*", headers: securityHeaders }];
+    return [
+      { source: "/:path*", headers: securityHeaders },
+      // API answers render nothing: no sources, never framed (pages get a nonce CSP from proxy.ts).
+      { source: "/api/:path*", headers: [{ key: "Content-Security-Policy", value: "default-src 'none'; frame-ancestors 'none'; sandbox" }] },
+    ];
   },
   // A separate build folder lets browser tests build beside a running dev server.
   distDir: process.env.NEXT_DIST_DIR || ".next",

@@ -1,31 +1,23 @@
 import { NextResponse, type NextRequest } from "next/server";
 import { trustedProxyHops } from "@/lib/security/client-address";
-import { API_CSP, HSTS, makeNonce, pageCsp } from "@/lib/security/headers";
-import { checkOrigin } from "@/lib/security/origin";
+import { HSTS, makeNonce, pageCsp } from "@/lib/security/headers";
 
-/** Served over HTTPS: the request URL says so, or a trusted proxy's X-Forwarded-Proto does. */
+/**
+ * Served over HTTPS: `next start` speaks plain HTTP, so TLS ends at a proxy in front; its X-Forwarded-Proto is
+ * believed only when LITHODEX_TRUSTED_PROXY_HOPS says there is one (a client could send the header itself).
+ */
 function isHttps(request: NextRequest): boolean {
-  if (request.nextUrl.protocol === "https:") return true;
   return trustedProxyHops() > 0 && request.headers.get("x-forwarded-proto")?.split(",")[0].trim() === "https";
 }
 
 /**
- * Runs before every page and API route: refuses state-changing API requests from other sites (Origin check), and
- * sets the Content-Security-Policy with a fresh nonce (pages), HSTS over HTTPS. The headers that never change are
- * set for every path, static files included, in next.config.mjs.
+ * Runs before every page: sets the Content-Security-Policy with a fresh nonce (Next puts it on its scripts) and HSTS
+ * over HTTPS. API routes are left out on purpose: with a proxy Next buffers request bodies in memory (and cuts them at
+ * proxyClientMaxBodySize), which would undo the streamed body limits; API routes check Origin themselves
+ * (lib/api/handler.ts) and get their fixed headers from next.config.mjs.
  */
 export function proxy(request: NextRequest) {
-  const path = request.nextUrl.pathname;
   const https = isHttps(request);
-  if (path.startsWith("/api/")) {
-    const verdict = checkOrigin(request.method, request.headers, request.nextUrl.origin);
-    const res = verdict.ok
-      ? NextResponse.next()
-      : NextResponse.json({ error: { code: "forbidden", message: verdict.reason ?? "Cross-site request refused." } }, { status: 403 });
-    res.headers.set("Content-Security-Policy", API_CSP);
-    if (https) res.headers.set("Strict-Transport-Security", HSTS);
-    return res;
-  }
   const nonce = makeNonce();
   const csp = pageCsp(nonce, { dev: process.env.NODE_ENV === "development", https });
   const requestHeaders = new Headers(request.headers);
@@ -40,7 +32,7 @@ export function proxy(request: NextRequest) {
 export const config = {
   matcher: [
     {
-      source: "/((?!_next/static|_next/image|favicon.ico|icon.svg|leaflet/|tiles-offline/).*)",
+      source: "/((?!api/|_next/static|_next/image|favicon.ico|icon.svg|leaflet/|tiles-offline/).*)",
       missing: [
         { type: "header", key: "next-router-prefetch" },
         { type: "header", key: "purpose", value: "prefetch" },

@@ -66,21 +66,31 @@ export function limitBody(req: Request, rule: BodyRule): Request {
     if (n > rule.maxBytes) throw tooLarge(rule);
   }
   if (!req.body) return req;
+  // Counted by hand rather than with pipeThrough: a transform that errors cancels its source, and cancelling a
+  // request body makes the server drop the connection before the 413 can be sent. Here reading simply stops; the
+  // server discards what the client still sends after the answer.
   let seen = 0;
-  const counter = new TransformStream<Uint8Array, Uint8Array>({
-    transform(chunk, controller) {
-      seen += chunk.byteLength;
+  const source = req.body.getReader();
+  const counted = new ReadableStream<Uint8Array>({
+    async pull(controller) {
+      const { done, value } = await source.read();
+      if (done) return controller.close();
+      seen += value.byteLength;
       if (seen > rule.maxBytes) {
+        source.releaseLock();
         controller.error(tooLarge(rule));
         return;
       }
-      controller.enqueue(chunk);
+      controller.enqueue(value);
+    },
+    cancel(reason) {
+      return source.cancel(reason);
     },
   });
   const limited = new Request(req.url, {
     method: req.method,
     headers: req.headers,
-    body: req.body.pipeThrough(counter),
+    body: counted,
     signal: req.signal,
     // @ts-expect-error -- Node's fetch needs duplex for a streamed request body (not in the DOM typings).
     duplex: "half",
@@ -117,7 +127,7 @@ export async function readLimitedBytes(req: Request, rule: BodyRule): Promise<Ui
     if (done) break;
     n += value.byteLength;
     if (n > rule.maxBytes) {
-      await reader.cancel().catch(() => {});
+      reader.releaseLock(); // not cancel: that would drop the connection before the 413 is sent
       throw tooLarge(rule);
     }
     parts.push(value);

@@ -68,8 +68,8 @@ function poolFor(memoryMb: number): Piscina {
   let p = state.pools.get(memoryMb);
   if (!p) {
     p = new Piscina({
-      filename: pathToFileURL(join(root(), "lib/workers/worker-entry.mjs")).href,
-      workerData: { tsconfig: join(root(), "tsconfig.json") },
+      filename: pathToFileURL(join(/*turbopackIgnore: true*/ root(), "lib/workers/worker-entry.mjs")).href,
+      workerData: { tsconfig: join(/*turbopackIgnore: true*/ root(), "tsconfig.json") },
       minThreads: 0,
       maxThreads: maxThreads(),
       idleTimeout: 60_000,
@@ -96,7 +96,7 @@ const seconds = (ms: number) => (ms >= 10_000 ? `${Math.round(ms / 1000)} s` : `
 export async function runJob<T = unknown>(task: TaskName, input: unknown, limits: JobLimits = {}, label: string = task): Promise<T> {
   const { timeoutMs, maxMemoryMb } = { ...DEFAULT_LIMITS, ...limits };
   const pool = poolFor(maxMemoryMb);
-  const moduleUrl = pathToFileURL(join(root(), TASKS[task])).href;
+  const moduleUrl = pathToFileURL(join(/*turbopackIgnore: true*/ root(), TASKS[task])).href;
   let out: { ok: true; value: T } | { ok: false; error: { name: string; message: string; code?: string; line?: number; field?: string; issues?: string[] } };
   try {
     out = await pool.run({ task, module: moduleUrl, input }, { signal: AbortSignal.timeout(timeoutMs) });
