@@ -12,7 +12,8 @@ interface Values {
   windowSize: string;
   smoothing: boolean;
   halfWidthDeg: string;
-  kAlpha2: boolean;
+  /** "auto" (decided from the peak shapes), "yes" or "no". */
+  kAlpha2: "auto" | "yes" | "no";
   k: string;
   zeroShiftDeg: string;
   tolerance: string;
@@ -34,7 +35,7 @@ export function processBody(v: Values) {
   if (num(v.windowSize) !== undefined) smoothing.windowSize = num(v.windowSize);
   if (Object.keys(smoothing).length) processing.smoothing = smoothing;
   if (num(v.halfWidthDeg) !== undefined) processing.background = { halfWidthDeg: num(v.halfWidthDeg) };
-  if (!v.kAlpha2) processing.kAlpha2 = { enabled: false };
+  if (v.kAlpha2 !== "auto") processing.kAlpha2 = { mode: v.kAlpha2 };
   if (num(v.k) !== undefined) processing.peaks = { k: num(v.k) };
   if (num(v.zeroShiftDeg) !== undefined) processing.correction = { zeroShiftDeg: num(v.zeroShiftDeg) };
   const identify: Record<string, unknown> = {};
@@ -49,7 +50,7 @@ export function processBody(v: Values) {
 /** Re-process with other parameters: a new run, the earlier ones are kept. Empty fields keep the defaults. */
 export function ReprocessForm({ onSubmit, busy, fieldErrors, error }: { onSubmit: (body: ReturnType<typeof processBody>) => void; busy: boolean; fieldErrors?: Record<string, string[]>; error?: string | null }) {
   const id = useId();
-  const [v, setV] = useState<Values>({ anode: "", wavelength: "", expectedFwhmDeg: "", windowSize: "", smoothing: true, halfWidthDeg: "", kAlpha2: true, k: "", zeroShiftDeg: "", tolerance: "", allowed: "", excluded: "" });
+  const [v, setV] = useState<Values>({ anode: "", wavelength: "", expectedFwhmDeg: "", windowSize: "", smoothing: true, halfWidthDeg: "", kAlpha2: "auto", k: "", zeroShiftDeg: "", tolerance: "", allowed: "", excluded: "" });
   const set = (k: keyof Values) => (e: React.ChangeEvent<HTMLInputElement | HTMLSelectElement>) => setV((s) => ({ ...s, [k]: e.target.type === "checkbox" ? (e.target as HTMLInputElement).checked : e.target.value }));
   const fe = (path: string) => fieldErrors?.[path];
   return (
@@ -102,7 +103,12 @@ export function ReprocessForm({ onSubmit, busy, fieldErrors, error }: { onSubmit
           <input type="checkbox" checked={v.smoothing} onChange={set("smoothing")} /> Savitzky–Golay smoothing
         </label>
         <label className="flex items-center gap-2">
-          <input type="checkbox" checked={v.kAlpha2} onChange={set("kAlpha2")} /> Strip Kα2 (Rachinger)
+          Kα2 (stripped by Rachinger when present)
+          <select className={inputClass} value={v.kAlpha2} onChange={set("kAlpha2")} aria-label="Kα2">
+            <option value="auto">Decide from the peak shapes</option>
+            <option value="yes">Present</option>
+            <option value="no">Absent (Kα1 only)</option>
+          </select>
         </label>
       </div>
       {error && (
