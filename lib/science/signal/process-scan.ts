@@ -398,13 +398,18 @@ export function resolveProcessParams(
 }
 
 /**
- * Process a scan: Savitzky–Golay smoothing → SNIP background → Rachinger Kα2 stripping → peak detection (k·σ from
- * counting statistics) → pseudo-Voigt fitting of Kα1(+Kα2) in windows → zero/displacement correction → d (Bragg),
- * relative intensity (strongest height = 100) and optional Scherrer size. The raw data are never modified.
+ * Process a scan: Savitzky–Golay smoothing → SNIP background → Kα2 present or not (from the peak shapes unless the
+ * caller says, see `detectKAlpha2`) → Rachinger Kα2 stripping when present → peak detection (k·σ from counting
+ * statistics) → pseudo-Voigt fitting of Kα1(+Kα2) in windows → zero/displacement correction → d (Bragg), relative
+ * intensity (strongest height = 100) and optional Scherrer size. Uneven steps: smoothing and SNIP run on an even grid
+ * and are mapped back; everything else works on the measured points. Cost is linear in the number of points (SNIP on
+ * block means past 40 points, capped automatic smoothing window, peak fits on each peak's own support). The raw data
+ * are never modified; the reader's warnings (`scan.meta.warnings`) come first in `warnings`.
  * @param scan - a parsed scan (see `parseScan`)
  * @param params - processing parameters (all optional)
- * @returns curves, peaks and the full parameters actually used
- * @throws RangeError for invalid parameters or when no wavelength can be decided
+ * @returns curves, peaks and the full parameters actually used (with the Kα2 decision in `params.kAlpha2`)
+ * @throws RangeError for invalid parameters, when no wavelength can be decided, or when the steps are too uneven to
+ * resample
  */
 export function processScan(scan: Scan, params: ProcessParams = {}): ProcessedScan {
   const n = scan.twoTheta.length;
