@@ -32,7 +32,7 @@ function scanAt(x: number[], seed: number): Scan {
   return { twoTheta: Float64Array.from(x), counts: Float64Array.from(counts), meta: { format: "xy", settings: {}, anode: "Cu" } };
 }
 
-const nearest = (x: number, list: { twoTheta: number }[]) => list.reduce((b, p) => (Math.abs(p.twoTheta - x) < Math.abs(b.twoTheta - x) ? p : b));
+const nearest = <T extends { twoTheta: number }>(x: number, list: T[]): T => list.reduce((b, p) => (Math.abs(p.twoTheta - x) < Math.abs(b.twoTheta - x) ? p : b));
 
 describe("uneven 2θ steps", () => {
   // 0.01° up to 40°, then 0.025° (a variable-step scan: finer where the peaks are dense, common practice).
