@@ -268,6 +268,21 @@ export class PointCollector {
     const { x, y, e } = this;
     if (cols.xScale !== undefined && cols.xScale !== 1) for (let i = 0; i < n; i++) x[i] *= cols.xScale;
     if (cols.xIsD) this.convertD(meta, cols);
+    else if (n >= 3 && x[1] < x[0] && x[n - 1] < x[n - 2] && x[n - 1] < x[0]) {
+      // Some instruments write a scan from high to low angle: accepted when the whole file runs that way.
+      for (let i = 1; i < n; i++) {
+        if (x[i] < x[i - 1]) continue;
+        const line = this.lineOf(i);
+        if (x[i] === x[i - 1]) throw new ScanParseError("DUPLICATE_TWO_THETA", `2θ = ${x[i]}° repeats the previous point`, { line, field: fields.x });
+        throw new ScanParseError(
+          "NOT_INCREASING",
+          `2θ = ${x[i]}° is higher than the previous point (${x[i - 1]}°) in a file that runs from high to low angle; 2θ must change steadily in one direction`,
+          { line, field: fields.x },
+        );
+      }
+      this.reverse();
+      (meta.warnings ??= []).push("2θ runs from high to low angle in the file: points put in increasing order");
+    }
     for (let i = 0; i < n; i++) {
       const xi = x[i];
       const yi = y[i];

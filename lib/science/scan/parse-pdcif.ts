@@ -11,6 +11,8 @@ const X_TAGS = ["_pd_meas_2theta_scan", "_pd_meas_angle_2theta", "_pd_proc_2thet
 /** Intensity tags, in order of preference. */
 const Y_TAGS = ["_pd_meas_counts_total", "_pd_meas_intensity_total", "_pd_proc_intensity_total", "_pd_proc_intensity_net"];
 const RANGE_PREFIXES = ["_pd_meas_2theta_range_", "_pd_proc_2theta_range_"];
+/** d-spacing column (pdCIF core dictionary), read as 2θ with the wavelength when no 2θ column is present. */
+const D_TAG = "_pd_proc_d_spacing";
 /** Loops longer than this keep no string values unless they hold scan data (bounds memory on large files). */
 const MAX_STRING_LOOP_VALUES = 10_000;
 
@@ -40,7 +42,7 @@ interface Block {
 }
 
 function isScanTag(tag: string): boolean {
-  return X_TAGS.includes(tag) || Y_TAGS.includes(tag) || (tag.endsWith("_su") && Y_TAGS.includes(tag.slice(0, -3)));
+  return X_TAGS.includes(tag) || tag === D_TAG || Y_TAGS.includes(tag) || (tag.endsWith("_su") && Y_TAGS.includes(tag.slice(0, -3)));
 }
 
 function readBlocks(text: string): Block[] {
@@ -215,7 +217,7 @@ export function parsePdCif(text: string, limits: ScanLimits): Scan {
     for (const loop of block.loops) {
       const yTag = Y_TAGS.find((t) => loop.numeric.has(t));
       if (!yTag) continue;
-      const xTag = X_TAGS.find((t) => loop.numeric.has(t));
+      const xTag = X_TAGS.find((t) => loop.numeric.has(t)) ?? (loop.numeric.has(D_TAG) ? D_TAG : undefined);
       const ycol = loop.numeric.get(yTag) as NumericColumn;
       const sucol = loop.numeric.get(`${yTag}_su`);
       const meta = emptyMeta("pdcif");
@@ -259,7 +261,12 @@ export function parsePdCif(text: string, limits: ScanLimits): Scan {
         meta.settings.twoThetaTag = `${prefix}min/max/inc`;
         for (let i = 0; i < n; i++) points.push(min + i * inc, ycol.values[i], allSu ? esdAt(i) : NaN, ycol.lines[i]);
       }
-      return points.finish(meta, { x: xTag ?? "twoTheta", y: yTag, e: sucol ? `${yTag}_su` : "esd" });
+      return points.finish(meta, {
+        x: xTag ?? "twoTheta",
+        y: yTag,
+        e: sucol ? `${yTag}_su` : "esd",
+        ...(xTag === D_TAG ? { xIsD: true, headerLine: loop.line } : {}),
+      });
     }
   }
   throw new ScanParseError(

@@ -159,6 +159,20 @@ describe("XY headers and comment headers of instrument exports", () => {
   });
 });
 
+describe("scans written from high to low angle", () => {
+  test("a file whose 2θ decreases throughout is put in increasing order, with a warning", () => {
+    const s = parseScan(`${[...rows(" ")].reverse().join("\n")}\n`);
+    expect(s.twoTheta[0]).toBe(10);
+    expect(s.counts[0]).toBe(100);
+    expect(s.meta.warnings?.[0]).toMatch(/high to low angle/);
+  });
+  test("one point out of order is still an error on its line", () => {
+    const lines = [...rows(" ")].reverse();
+    [lines[10], lines[11]] = [lines[11], lines[10]];
+    expectError(`${lines.join("\n")}\n`, "NOT_INCREASING", { line: 12 });
+  });
+});
+
 describe("counts per second", () => {
   test("header cps and '# Time per step (s): 2' → counts = cps × 2 s (N = rate·t, counting statistics: common practice)", () => {
     const s = parseScan(`# Time per step (s): 2\n2theta,cps\n${rows(",").join("\n")}\n`);
@@ -258,6 +272,12 @@ describe("d instead of 2θ (Bragg's law nλ = 2d·sinθ, n = 1)", () => {
     lines[N - 1] = "0.70,5";
     const err = expectError(`# wavelength: 1.540598\nd,counts\n${lines.join("\n")}\n`, "D_OUT_OF_RANGE", { line: N + 2 });
     expect(err.message).toMatch(/λ\/2 = 0\.770299 Å/);
+  });
+  test("pdCIF _pd_proc_d_spacing (pdCIF core dictionary) with _diffrn_radiation_wavelength", () => {
+    const loop = Array.from({ length: N }, (_, i) => `${(4 - i * 0.01).toFixed(2)} ${100 + i}`).join("\n");
+    const s = parseScan(`data_d\n_diffrn_radiation_wavelength 1.540598\nloop_\n_pd_proc_d_spacing\n_pd_proc_intensity_total\n${loop}\n`);
+    expect(s.meta.format).toBe("pdcif");
+    expect(s.twoTheta[0]).toBeCloseTo(bragg(4, 1.540598), 12);
   });
   test("d going back and forth is refused on the line where the order breaks", () => {
     const lines = dRows(",");
