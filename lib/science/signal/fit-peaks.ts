@@ -385,7 +385,8 @@ function fitGroup(
           const u = xs[i] - xc0;
           const z = u * u * ih2;
           const iq = 1 / (1 + 4 * z);
-          const gk = CG * Math.exp(-FOUR_LN2 * z) * ih;
+          // Beyond 3.8 FWHM the Gaussian part is below 10⁻¹⁷ of its peak: skip the exponential there.
+          const gk = z < 14.4 ? CG * Math.exp(-FOUR_LN2 * z) * ih : 0;
           const lk = CL * ih * iq;
           const f = et * lk + ge * gk;
           const dx = 8 * u * ih2 * (et * lk * iq + ge * gk * LN2);
