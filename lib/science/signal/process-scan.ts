@@ -614,8 +614,8 @@ function acceptFitted(peaks: FittedPeak[], twoTheta: Float64Array, sigma: Float6
       else hi = mid;
     }
     if (f.height < p.peaks.k * sigma[lo]) continue;
-    // Narrower than the local step: not resolved by the measurement (a spike on one or two points).
-    if (f.fwhm < twoTheta[Math.min(lo + 1, twoTheta.length - 1)] - twoTheta[lo]) continue;
+    // Narrower than detection allows (minFwhmPoints local steps): a spike on one or two points, not a resolved peak.
+    if (f.fwhm < p.peaks.minFwhmPoints * (twoTheta[Math.min(lo + 1, twoTheta.length - 1)] - twoTheta[lo])) continue;
     const prev = out[out.length - 1];
     if (prev && f.twoTheta - prev.twoTheta < 0.3 * Math.min(prev.fwhm, f.fwhm)) {
       if (f.height > prev.height) out[out.length - 1] = f;
