@@ -36,8 +36,9 @@ export default async function UploadScansPage({ params, searchParams }: { params
       {canUpload ? (
         <>
           <p className="text-sm text-muted">
-            Text scans only: two-column XY (or XYE), CSV or pdCIF. The file is kept byte for byte; processing (smoothing, background, Kα2 stripping, peak fitting) and phase search start on
-            the server as soon as it is stored. A file the reader cannot use is refused with the line at fault, and nothing is stored.
+            Text scans only: XY (or XYE), CSV or pdCIF. Columns are read by their names (2θ or d, counts or counts per second, esd, counting time); d needs the wavelength and
+            counts per second the time per step, from the file or the form. The file is kept byte for byte; processing (smoothing, background, Kα2 stripping when present, peak fitting)
+            and phase search start on the server as soon as it is stored. A file the reader cannot use is refused with the line at fault, and nothing is stored.
           </p>
           <div className="rounded-lg border border-line bg-white p-4 shadow-sm">
             <ScanUpload projectId={projectId} initialSample={initial} />
