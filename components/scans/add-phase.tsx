@@ -15,8 +15,26 @@ interface RefItem {
   strongLines: { d: number; intensity: number }[];
 }
 
-/** Search the reference library and add a phase the search did not propose (it is added as accepted). */
-export function AddPhase({ onAdd, busy, error }: { onAdd: (referencePhaseId: string, note: string) => void; busy: boolean; error?: string | null }) {
+/**
+ * Search the reference library and pick a phase: by default it is added as accepted (with an optional note); with
+ * `actionLabel` the caller decides what adding means (e.g. add it to the fit and refit) and no note is asked.
+ */
+export function AddPhase({
+  onAdd,
+  busy,
+  error,
+  label = "Add a phase from the library",
+  actionLabel,
+  exclude = [],
+}: {
+  onAdd: (referencePhaseId: string, note: string, mineral: string) => void;
+  busy: boolean;
+  error?: string | null;
+  label?: string;
+  actionLabel?: (mineral: string) => string;
+  /** Reference ids not to offer (already in the fit). */
+  exclude?: string[];
+}) {
   const id = useId();
   const [q, setQ] = useState("");
   const [picked, setPicked] = useState<RefItem | null>(null);
@@ -29,7 +47,7 @@ export function AddPhase({ onAdd, busy, error }: { onAdd: (referencePhaseId: str
   return (
     <div className="space-y-2">
       <label htmlFor={`${id}-q`} className="block text-sm font-medium">
-        Add a phase from the library
+        {label}
       </label>
       {picked ? (
         <div className="flex items-center justify-between gap-2 rounded-md border border-line bg-stone px-2 py-1.5 text-sm">
@@ -47,7 +65,7 @@ export function AddPhase({ onAdd, busy, error }: { onAdd: (referencePhaseId: str
             <ul className="max-h-48 overflow-auto rounded-md border border-line bg-white text-sm" role="listbox" aria-label="Matching reference phases">
               {isFetching && <li className="px-2 py-1 text-muted">Searching…</li>}
               {data?.items.length === 0 && <li className="px-2 py-1 text-muted">No phase matches “{q}”.</li>}
-              {data?.items.map((r) => (
+              {data?.items.filter((r) => !exclude.includes(r.id)).map((r) => (
                 <li key={r.id}>
                   <button type="button" role="option" aria-selected={false} className="flex w-full items-baseline justify-between gap-2 px-2 py-1 text-left hover:bg-brand-light" onClick={() => setPicked(r)}>
                     <span>
@@ -63,21 +81,25 @@ export function AddPhase({ onAdd, busy, error }: { onAdd: (referencePhaseId: str
       )}
       {picked && (
         <>
-          <label htmlFor={`${id}-note`} className="sr-only">
-            Why this phase (optional)
-          </label>
-          <input id={`${id}-note`} className={inputClass} placeholder="Why (optional), e.g. shoulder at 2.89 Å" value={note} onChange={(e) => setNote(e.target.value)} />
+          {!actionLabel && (
+            <>
+              <label htmlFor={`${id}-note`} className="sr-only">
+                Why this phase (optional)
+              </label>
+              <input id={`${id}-note`} className={inputClass} placeholder="Why (optional), e.g. shoulder at 2.89 Å" value={note} onChange={(e) => setNote(e.target.value)} />
+            </>
+          )}
           <Button
             type="button"
             disabled={busy}
             onClick={() => {
-              onAdd(picked.id, note);
+              onAdd(picked.id, note, picked.mineral);
               setPicked(null);
               setQ("");
               setNote("");
             }}
           >
-            Add {picked.mineral} as accepted
+            {actionLabel ? actionLabel(picked.mineral) : `Add ${picked.mineral} as accepted`}
           </Button>
         </>
       )}

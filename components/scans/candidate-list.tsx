@@ -67,13 +67,20 @@ export interface CandidateListProps {
   overlayIds: string[];
   onToggleOverlay: (p: PhaseRow) => void;
   onDecide: (p: PhaseRow, status: PhaseRow["status"]) => void;
+  /** Put a candidate into the whole-pattern fit and refit (absent when the run has no fit or it is full). */
+  onAddToFit?: (p: PhaseRow) => void;
+  refitting?: boolean;
+  /** Colour of a candidate's reference lines when drawn. */
+  colorOf?: (referencePhaseId: string) => string;
 }
 
 /**
- * Ranked candidates with score, matched lines, the confident flag and the semi-quantitative wt% (RIR), plus the
- * analyst's accept / reject buttons and a toggle to draw each candidate's reference lines on the diffractogram.
+ * The peak-list search's ranked candidates (and phases added by hand) with score, matched lines and the confident
+ * flag, plus the analyst's accept / reject buttons, a toggle to draw each candidate's reference lines on the
+ * diffractogram and, when the run has a whole-pattern fit, a button to put the candidate into the fit. Runs made
+ * before the fit existed show the search's semi-quantitative wt% (RIR).
  */
-export function CandidateList({ phases, mixture, canReview, locked, busyId, overlayIds, onToggleOverlay, onDecide }: CandidateListProps) {
+export function CandidateList({ phases, mixture, canReview, locked, busyId, overlayIds, onToggleOverlay, onDecide, onAddToFit, refitting = false, colorOf }: CandidateListProps) {
   const [open, setOpen] = useState<string | null>(null);
   const [showAll, setShowAll] = useState(false);
   const inMixture = new Set(mixture.map((m) => m.referencePhaseId));
@@ -81,12 +88,12 @@ export function CandidateList({ phases, mixture, canReview, locked, busyId, over
   const main = phases.filter((p) => p.status !== "candidate" || p.confident || (p.rank ?? 0) <= 5 || overlayIds.includes(p.referencePhaseId));
   const folded = phases.length - main.length;
   const visible = showAll ? phases : main;
-  if (phases.length === 0) return <p className="text-sm text-muted">No candidate phases: the peaks matched nothing in the reference library well enough (amorphous material, a phase not in the library, or too few peaks).</p>;
+  if (phases.length === 0) return <p className="text-sm text-muted">No other candidates: the peaks matched nothing else in the reference library well enough.</p>;
   return (
     <>
       <ol className="space-y-2" data-testid="candidate-list">
         {visible.map((p) => {
-          const color = overlayIds.includes(p.referencePhaseId) ? OVERLAY_COLORS[overlayIds.indexOf(p.referencePhaseId) % OVERLAY_COLORS.length] : undefined;
+          const color = overlayIds.includes(p.referencePhaseId) ? (colorOf?.(p.referencePhaseId) ?? OVERLAY_COLORS[overlayIds.indexOf(p.referencePhaseId) % OVERLAY_COLORS.length]) : undefined;
           return (
             <li
               key={p.id}
@@ -103,7 +110,7 @@ export function CandidateList({ phases, mixture, canReview, locked, busyId, over
                   </p>
                   <div className="mt-1 flex flex-wrap items-center gap-1.5 text-xs">
                     <StatusBadge p={p} />
-                    {p.source === "auto" && (p.confident ? <Badge tone="brand">Confident match</Badge> : <Badge>Weak match</Badge>)}
+                    {p.source === "auto" && (p.confident ? <Badge tone="brand">Strong peak-list match</Badge> : <Badge>Weak peak-list match</Badge>)}
                     {p.hazard && <Badge tone={p.hazard === "asbestos" ? "danger" : "oxide"}>{HAZARD_BADGE[p.hazard]}</Badge>}
                     {p.otherHazards.map((h) => (
                       <Badge key={h} tone="oxide">
@@ -135,7 +142,12 @@ export function CandidateList({ phases, mixture, canReview, locked, busyId, over
                   Show reference lines
                 </label>
                 {canReview && !locked && (
-                  <span className="ml-auto flex gap-1">
+                  <span className="ml-auto flex flex-wrap justify-end gap-1">
+                    {onAddToFit && (
+                      <Button type="button" variant="secondary" className="px-2 py-1 text-xs" disabled={refitting} onClick={() => onAddToFit(p)} aria-label={`Add ${p.mineral} to the fit and refit`}>
+                        Add to fit
+                      </Button>
+                    )}
                     {p.status !== "accepted" && (
                       <Button type="button" variant="secondary" className="px-2 py-1 text-xs" disabled={busyId === p.id} onClick={() => onDecide(p, "accepted")} aria-label={`Accept ${p.mineral}`}>
                         Accept

@@ -13,13 +13,28 @@ export interface Overlay {
   lines: { twoTheta: number; height: number }[];
 }
 
+/** One phase's own contribution drawn on the fit's background (null where the phase contributes nothing). */
+export interface PhaseCurve {
+  id: string;
+  label: string;
+  color: string;
+  values: (number | null)[];
+}
+
 export interface DiffractogramProps {
   twoTheta: number[];
   raw: number[];
   background: number[];
   /** Background + Kα1-only processed signal. */
   processed: number[];
+  /** Background + the peak list's own fitted peaks. */
   fitted: number[];
+  /** Whole-pattern fit: background + every phase. */
+  calculated?: number[];
+  /** Observed − calculated, drawn in its own panel under the pattern. */
+  difference?: number[];
+  /** Each fitted phase's contribution (toggle per phase). */
+  phases?: PhaseCurve[];
   peaks: { twoTheta: number; height: number }[];
   /** Å, for the d axis and read-outs. */
   wavelength: number;
@@ -28,13 +43,18 @@ export interface DiffractogramProps {
   className?: string;
 }
 
-type SeriesKey = "raw" | "background" | "processed" | "fitted";
-const SERIES: { key: SeriesKey; label: string; color: string; width: number; dash?: number[] }[] = [
-  { key: "raw", label: "Observed", color: "#3d4a4c", width: 1 },
-  { key: "background", label: "Background", color: "#a08a5b", width: 1.25, dash: [6, 4] },
-  { key: "processed", label: "Processed (Kα1)", color: "#1d5c63", width: 1.25 },
-  { key: "fitted", label: "Fitted profile", color: "rgba(200, 80, 20, 0.8)", width: 1.25 },
-];
+interface SeriesDef {
+  key: string;
+  label: string;
+  color: string;
+  width: number;
+  dash?: number[];
+  values: (number | null)[];
+}
+
+const OBSERVED_COLOR = "#3d4a4c";
+const CALCULATED_COLOR = "#c2410c";
+const DIFFERENCE_COLOR = "#1d5c63";
 
 const DEG = Math.PI / 180;
 const dOf = (tt: number, lambda: number) => lambda / (2 * Math.sin((tt / 2) * DEG));
@@ -80,74 +100,107 @@ function interp(xs: number[], ys: number[], x: number): number {
 }
 
 /**
- * Interactive diffractogram (uPlot, canvas; client only): observed counts, background, processed and fitted
- * profiles, peak marks and candidate reference lines. Drag to zoom, wheel to zoom at the pointer, buttons or arrow
+ * Interactive diffractogram (uPlot, canvas; client only): observed counts, background, processed profile and the
+ * peak fit; with a whole-pattern fit, its calculated profile, each phase's own profile (toggle per phase) and the
+ * difference (observed − calculated) in a panel underneath that follows the zoom; peak marks and candidate
+ * reference lines. Drag to zoom, wheel to zoom at the pointer, buttons or arrow
  * keys to pan, double-click or "Reset" to show everything; 2θ or d axis; linear or log counts.
  */
-export function Diffractogram({ twoTheta, raw, background, processed, fitted, peaks, wavelength, overlays = [], height = 360, className }: DiffractogramProps) {
+export function Diffractogram({ twoTheta, raw, background, processed, fitted, calculated, difference, phases = [], peaks, wavelength, overlays = [], height = 360, className }: DiffractogramProps) {
   const wrapRef = useRef<HTMLDivElement>(null);
+  const diffRef = useRef<HTMLDivElement>(null);
   const plotRef = useRef<uPlot | null>(null);
+  const diffPlotRef = useRef<uPlot | null>(null);
   const [axis, setAxis] = useState<"2theta" | "d">("2theta");
   const [log, setLog] = useState(false);
-  const [shown, setShown] = useState<Record<SeriesKey | "peaks", boolean>>({ raw: true, background: true, processed: false, fitted: true, peaks: true });
+  const hasFit = !!calculated && calculated.length === twoTheta.length;
+  const hasDiff = hasFit && !!difference && difference.length === twoTheta.length;
+  const [shown, setShown] = useState<Record<string, boolean>>({});
+  const isShown = (key: string) => shown[key] ?? !(key === "processed" || (key === "fitted" && hasFit));
   const [ready, setReady] = useState(false);
   const [readout, setReadout] = useState<number | null>(null);
-  const drawState = useRef({ peaks, overlays, showPeaks: shown.peaks, twoTheta, background, fitted, log });
+  const mainHeight = hasDiff && isShown("difference") ? Math.round(height * 0.74) : height;
+  const diffHeight = height - Math.round(height * 0.74) + 44;
+  const series: SeriesDef[] = useMemo(
+    () => [
+      { key: "raw", label: "Observed", color: OBSERVED_COLOR, width: 1, values: raw },
+      { key: "background", label: "Background", color: "#a08a5b", width: 1.25, dash: [6, 4], values: background },
+      { key: "processed", label: "Processed (Kα1)", color: "#1d5c63", width: 1.25, values: processed },
+      { key: "fitted", label: hasFit ? "Peak fit" : "Fitted profile", color: "rgba(120, 90, 160, 0.85)", width: 1.25, values: fitted },
+      ...(hasFit ? [{ key: "calculated", label: "Calculated (fit)", color: CALCULATED_COLOR, width: 1.5, values: calculated! }] : []),
+      ...phases.map((p) => ({ key: `phase:${p.id}`, label: p.label, color: p.color, width: 1.25, values: p.values })),
+    ],
+    [raw, background, processed, fitted, hasFit, calculated, phases],
+  );
+  const drawState = useRef({ peaks, overlays, showPeaks: isShown("peaks"), twoTheta, background, fitted: hasFit ? calculated! : fitted, log });
   // What the draw hook paints on top of the curves (peak marks, reference lines); a redraw picks it up.
+  const showPeaks = isShown("peaks");
   useEffect(() => {
-    drawState.current = { peaks, overlays, showPeaks: shown.peaks, twoTheta, background, fitted, log };
+    drawState.current = { peaks, overlays, showPeaks, twoTheta, background, fitted: hasFit ? calculated! : fitted, log };
     plotRef.current?.redraw(false);
-  }, [peaks, overlays, shown.peaks, twoTheta, background, fitted, log]);
+  }, [peaks, overlays, showPeaks, twoTheta, background, fitted, calculated, hasFit, log]);
 
   const data = useMemo(() => {
-    const clamp = (a: number[]) => (log ? a.map((v) => Math.max(v, 1)) : a);
-    return [twoTheta, clamp(raw), clamp(background), clamp(processed), clamp(fitted)] as uPlot.AlignedData;
-  }, [twoTheta, raw, background, processed, fitted, log]);
+    const clamp = (a: (number | null)[]) => (log ? a.map((v) => (v == null ? null : Math.max(v, 1))) : a);
+    return [twoTheta, ...series.map((s) => clamp(s.values))] as uPlot.AlignedData;
+  }, [twoTheta, series, log]);
 
-  // (Re)create the plot when the data or the axis kinds change.
+  const diffData = useMemo(() => (hasDiff ? ([twoTheta, difference!] as uPlot.AlignedData) : null), [hasDiff, twoTheta, difference]);
+  const showDiff = hasDiff && isShown("difference");
+
+  // (Re)create the plots when the data or the axis kinds change.
   useEffect(() => {
     let disposed = false;
     let plot: uPlot | null = null;
+    let diffPlot: uPlot | null = null;
     const el = wrapRef.current;
     if (!el || twoTheta.length < 2) return;
     const keepX = plotRef.current ? { min: plotRef.current.scales.x.min, max: plotRef.current.scales.x.max } : null;
+    const syncKey = `diffractogram-${Math.random().toString(36).slice(2)}`;
     void import("uplot").then(({ default: UPlot }) => {
       if (disposed || !wrapRef.current) return;
       const width = Math.max(280, wrapRef.current.clientWidth);
+      const xAxis = (showValues: boolean): uPlot.Axis => ({
+        label: showValues ? (axis === "d" ? "d (Å)" : "2θ (°)") : undefined,
+        labelSize: showValues ? 24 : 0,
+        size: showValues ? 36 : 6,
+        stroke: "#5f6b6d",
+        grid: { stroke: "#ece8df", width: 1 },
+        ...(axis === "d" ? { splits: (u: uPlot, _i: number, min: number, max: number) => dSplits(u, min, max, wavelength) } : {}),
+        values: (_u: uPlot, splits: number[]) =>
+          splits.map((tt) => {
+            if (!showValues) return "";
+            if (axis !== "d") return String(Math.round(tt * 100) / 100);
+            const d = dOf(tt, wavelength);
+            return d >= 10 ? d.toFixed(0) : d >= 2 ? d.toFixed(1) : d.toFixed(2);
+          }),
+      });
+      // Zoom and pan of either plot follow the other.
+      const follow = (other: () => uPlot | null) => (u: uPlot, key: string) => {
+        const o = other();
+        if (key !== "x" || !o) return;
+        const { min, max } = u.scales.x;
+        if (min == null || max == null || (o.scales.x.min === min && o.scales.x.max === max)) return;
+        o.setScale("x", { min, max });
+      };
       const opts: uPlot.Options = {
         width,
-        height,
+        height: mainHeight,
         pxAlign: 0,
         legend: { show: false },
-        cursor: { drag: { x: true, y: false, setScale: true }, points: { show: false } },
+        cursor: { drag: { x: true, y: false, setScale: true }, points: { show: false }, sync: { key: syncKey } },
         scales: { x: { time: false }, y: log ? { distr: 3, log: 10 } : { auto: true } },
         series: [
           {
             label: "2θ",
             value: (_u, v) => (v == null ? "—" : `${v.toFixed(3)}° · d ${dOf(v, wavelength).toFixed(4)} Å`),
           },
-          ...SERIES.map((s) => ({ label: s.label, stroke: s.color, width: s.width, dash: s.dash, show: shown[s.key], value: (_u: uPlot, v: number | null) => (v == null ? "—" : Math.round(v).toLocaleString("en")) })),
+          ...series.map((s) => ({ label: s.label, stroke: s.color, width: s.width, dash: s.dash, show: isShown(s.key), value: (_u: uPlot, v: number | null) => (v == null ? "—" : Math.round(v).toLocaleString("en")) })),
         ],
-        axes: [
-          {
-            label: axis === "d" ? "d (Å)" : "2θ (°)",
-            labelSize: 24,
-            stroke: "#5f6b6d",
-            grid: { stroke: "#ece8df", width: 1 },
-            ...(axis === "d"
-              ? {
-                  splits: (u: uPlot, _i: number, min: number, max: number) => dSplits(u, min, max, wavelength),
-                  values: (_u: uPlot, splits: number[]) => splits.map((tt) => {
-                    const d = dOf(tt, wavelength);
-                    return d >= 10 ? d.toFixed(0) : d >= 2 ? d.toFixed(1) : d.toFixed(2);
-                  }),
-                }
-              : {}),
-          },
-          { label: log ? "Counts (log)" : "Counts", labelSize: 24, stroke: "#5f6b6d", grid: { stroke: "#ece8df", width: 1 }, size: 60 },
-        ],
+        axes: [xAxis(!showDiff), { label: log ? "Counts (log)" : "Counts", labelSize: 24, stroke: "#5f6b6d", grid: { stroke: "#ece8df", width: 1 }, size: 64 }],
         hooks: {
           setCursor: [(u) => setReadout(u.cursor.idx ?? null)],
+          setScale: [follow(() => diffPlotRef.current)],
           draw: [
             (u) => {
               const st = drawState.current;
@@ -198,38 +251,84 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, pe
         },
       };
       plot = new UPlot(opts, data, wrapRef.current);
-      if (keepX && keepX.min != null && keepX.max != null) plot.setScale("x", { min: keepX.min, max: keepX.max });
+      if (showDiff && diffData && diffRef.current) {
+        const diffOpts: uPlot.Options = {
+          width,
+          height: diffHeight,
+          pxAlign: 0,
+          legend: { show: false },
+          cursor: { drag: { x: true, y: false, setScale: true }, points: { show: false }, sync: { key: syncKey } },
+          scales: {
+            x: { time: false },
+            y: {
+              range: (_u, min, max) => {
+                const a = Math.max(Math.abs(min ?? 0), Math.abs(max ?? 0), 1) * 1.05;
+                return [-a, a];
+              },
+            },
+          },
+          series: [{ label: "2θ" }, { label: "Observed − calculated", stroke: DIFFERENCE_COLOR, width: 1 }],
+          axes: [xAxis(true), { label: "Obs − calc", labelSize: 20, labelFont: "11px system-ui, sans-serif", stroke: "#5f6b6d", grid: { stroke: "#ece8df", width: 1 }, size: 64, ticks: { show: true }, splits: (_u, _i, min, max) => [min * 0.8, 0, max * 0.8].map((v) => Math.round(v)) }],
+          hooks: {
+            setCursor: [(u) => setReadout(u.cursor.idx ?? null)],
+            setScale: [follow(() => plotRef.current)],
+            draw: [
+              (u) => {
+                const ctx = u.ctx;
+                const y0 = u.valToPos(0, "y", true);
+                ctx.save();
+                ctx.strokeStyle = "#a08a5b";
+                ctx.lineWidth = devicePixelRatio;
+                ctx.setLineDash([4 * devicePixelRatio, 3 * devicePixelRatio]);
+                ctx.beginPath();
+                ctx.moveTo(u.bbox.left, y0);
+                ctx.lineTo(u.bbox.left + u.bbox.width, y0);
+                ctx.stroke();
+                ctx.restore();
+              },
+            ],
+          },
+        };
+        diffPlot = new UPlot(diffOpts, diffData, diffRef.current);
+        diffPlotRef.current = diffPlot;
+      }
       plotRef.current = plot;
+      if (keepX && keepX.min != null && keepX.max != null) plot.setScale("x", { min: keepX.min, max: keepX.max });
       setReady(true);
     });
     return () => {
       disposed = true;
       plot?.destroy();
+      diffPlot?.destroy();
       if (plotRef.current === plot) plotRef.current = null;
+      if (diffPlotRef.current === diffPlot) diffPlotRef.current = null;
     };
-    // `shown` is applied below without rebuilding; overlays/peaks redraw through drawState.
+    // Series visibility is applied below without rebuilding; overlays/peaks redraw through drawState.
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [data, axis, log, height, wavelength]);
+  }, [data, diffData, showDiff, axis, log, mainHeight, diffHeight, wavelength]);
 
   // Series visibility without rebuilding.
   useEffect(() => {
     const u = plotRef.current;
     if (!u) return;
-    SERIES.forEach((s, i) => u.setSeries(i + 1, { show: shown[s.key] }));
+    series.forEach((s, i) => u.setSeries(i + 1, { show: isShown(s.key) }));
     u.redraw(false);
-  }, [shown, ready]);
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [shown, ready, series]);
 
   // Follow the container width.
   useEffect(() => {
     const el = wrapRef.current;
     if (!el) return;
     const ro = new ResizeObserver(() => {
-      const u = plotRef.current;
-      if (u && el.clientWidth > 0) u.setSize({ width: Math.max(280, el.clientWidth), height });
+      if (el.clientWidth <= 0) return;
+      const width = Math.max(280, el.clientWidth);
+      plotRef.current?.setSize({ width, height: mainHeight });
+      diffPlotRef.current?.setSize({ width, height: diffHeight });
     });
     ro.observe(el);
     return () => ro.disconnect();
-  }, [height]);
+  }, [mainHeight, diffHeight]);
 
   const full = useMemo(() => ({ min: twoTheta[0], max: twoTheta[twoTheta.length - 1] }), [twoTheta]);
 
@@ -281,7 +380,7 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, pe
     e.preventDefault();
   };
 
-  const toggle = (k: SeriesKey | "peaks") => setShown((s) => ({ ...s, [k]: !s[k] }));
+  const toggle = (k: string) => setShown((s) => ({ ...s, [k]: !isShown(k) }));
   const btn = "rounded border border-line bg-white px-2 py-1 text-xs font-medium text-ink hover:bg-stone aria-pressed:border-brand aria-pressed:bg-brand-light";
 
   return (
@@ -321,17 +420,36 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, pe
           </button>
         </div>
         <div className="flex flex-wrap gap-1" role="group" aria-label="Curves shown">
-          {SERIES.map((s) => (
-            <button key={s.key} type="button" className={btn} aria-pressed={shown[s.key]} onClick={() => toggle(s.key)}>
-              <span aria-hidden className="mr-1 inline-block h-0.5 w-3 align-middle" style={{ background: s.color }} />
-              {s.label}
+          {series
+            .filter((s) => !s.key.startsWith("phase:"))
+            .map((s) => (
+              <button key={s.key} type="button" className={btn} aria-pressed={isShown(s.key)} onClick={() => toggle(s.key)}>
+                <span aria-hidden className="mr-1 inline-block h-0.5 w-3 align-middle" style={{ background: s.color }} />
+                {s.label}
+              </button>
+            ))}
+          {hasDiff && (
+            <button type="button" className={btn} aria-pressed={isShown("difference")} onClick={() => toggle("difference")}>
+              <span aria-hidden className="mr-1 inline-block h-0.5 w-3 align-middle" style={{ background: DIFFERENCE_COLOR }} />
+              Difference
             </button>
-          ))}
-          <button type="button" className={btn} aria-pressed={shown.peaks} onClick={() => toggle("peaks")}>
+          )}
+          <button type="button" className={btn} aria-pressed={isShown("peaks")} onClick={() => toggle("peaks")}>
             ▼ Peaks
           </button>
         </div>
       </div>
+      {phases.length > 0 && (
+        <div className="flex flex-wrap items-center gap-1" role="group" aria-label="Phase profiles shown">
+          <span className="mr-1 text-xs text-muted">Phase profiles:</span>
+          {phases.map((p) => (
+            <button key={p.id} type="button" className={btn} aria-pressed={isShown(`phase:${p.id}`)} onClick={() => toggle(`phase:${p.id}`)} data-testid="phase-profile-toggle">
+              <span aria-hidden className="mr-1 inline-block h-1 w-3 align-middle" style={{ background: p.color }} />
+              {p.label}
+            </button>
+          ))}
+        </div>
+      )}
       {overlays.length > 0 && (
         <ul className="flex flex-wrap gap-3 text-xs" aria-label="Reference lines shown">
           {overlays.map((o) => (
@@ -342,22 +460,44 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, pe
           ))}
         </ul>
       )}
-      <div
-        ref={wrapRef}
-        tabIndex={0}
-        onKeyDown={onKey}
-        onDoubleClick={reset}
-        role="img"
-        aria-label={`Diffractogram, ${twoTheta.length} points from ${full.min.toFixed(2)} to ${full.max.toFixed(2)}° 2θ, ${peaks.length} peaks marked`}
-        data-testid="diffractogram"
-        className="min-h-[200px] w-full overflow-hidden rounded-md border border-line bg-white focus-visible:outline-2"
-        style={{ minHeight: height + 40 }}
-      />
+      <div className="overflow-hidden rounded-md border border-line bg-white">
+        <div
+          ref={wrapRef}
+          tabIndex={0}
+          onKeyDown={onKey}
+          onDoubleClick={reset}
+          role="img"
+          aria-label={`Diffractogram, ${twoTheta.length} points from ${full.min.toFixed(2)} to ${full.max.toFixed(2)}° 2θ, ${peaks.length} peaks marked${hasFit ? `, with the calculated profile of the whole-pattern fit${phases.length ? ` and ${phases.length} phase profile${phases.length === 1 ? "" : "s"}` : ""}` : ""}`}
+          data-testid="diffractogram"
+          className="w-full focus-visible:outline-2"
+          style={{ minHeight: mainHeight + 10 }}
+        />
+        {showDiff && (
+          <div
+            ref={diffRef}
+            role="img"
+            aria-label="Difference between the observed and calculated profiles (observed − calculated), on the same 2θ scale"
+            data-testid="difference-plot"
+            className="w-full border-t border-line/70"
+            style={{ minHeight: diffHeight }}
+            onDoubleClick={reset}
+          />
+        )}
+      </div>
       <p className="min-h-5 text-xs tabular-nums" aria-live="off" data-testid="readout">
         {readout != null && twoTheta[readout] != null ? (
           <>
             2θ <span className="font-medium">{twoTheta[readout].toFixed(3)}°</span> · d <span className="font-medium">{dOf(twoTheta[readout], wavelength).toFixed(4)} Å</span> · observed{" "}
-            <span className="font-medium">{Math.round(raw[readout]).toLocaleString("en")}</span> · background {Math.round(background[readout]).toLocaleString("en")} · fitted {Math.round(fitted[readout]).toLocaleString("en")} counts
+            <span className="font-medium">{Math.round(raw[readout]).toLocaleString("en")}</span> · background {Math.round(background[readout]).toLocaleString("en")}
+            {hasFit ? (
+              <>
+                {" "}
+                · calculated <span className="font-medium">{Math.round(calculated![readout]).toLocaleString("en")}</span>
+                {hasDiff ? ` · difference ${Math.round(difference![readout]).toLocaleString("en")}` : ""} counts
+              </>
+            ) : (
+              <> · fitted {Math.round(fitted[readout]).toLocaleString("en")} counts</>
+            )}
           </>
         ) : (
           <span className="text-muted">Point at the plot to read 2θ, d and counts.</span>

@@ -14,7 +14,7 @@ export function PeakTable({ peaks, unexplained, wavelength }: { peaks: PeakRow[]
     <div>
       <div className="mb-2 flex items-center justify-between gap-2 text-xs text-muted">
         <span>
-          {peaks.length} peaks · λ = {wavelength.toFixed(5)} Å · {unexplained.length} not explained by the phases the search accepted (marked ○)
+          {peaks.length} peaks · λ = {wavelength.toFixed(5)} Å · {unexplained.length} not explained by the fit (marked ○)
         </span>
         <label className="flex items-center gap-1">
           Sort
@@ -62,7 +62,7 @@ export function PeakTable({ peaks, unexplained, wavelength }: { peaks: PeakRow[]
                     {p.fwhm != null ? p.fwhm.toFixed(3) : "—"}
                     {p.fwhmEsd != null && <span className="text-muted"> ± {p.fwhmEsd.toFixed(3)}</span>}
                   </td>
-                  <td className="px-2 py-1 text-center text-muted" title={unexp ? "Not explained by the phases the search accepted" : undefined}>
+                  <td className="px-2 py-1 text-center text-muted" title={unexp ? "Not explained by the phases of the fit" : undefined}>
                     {unexp ? "○" : ""}
                   </td>
                 </tr>

@@ -11,7 +11,8 @@ export function RunList({ runs, selectedId, hrefFor, canReview, locked, onMakeCu
       {runs.map((r, i) => (
         <li key={r.id} className="flex flex-wrap items-center justify-between gap-2 py-1.5">
           <span>
-            Run {runs.length - i} · {new Date(r.createdAt).toLocaleString("en-GB", { dateStyle: "short", timeStyle: "short" })}
+            Run {runs.length - i}
+            {r.refit ? ` (refit, ${r.refit.phaseCount} phase${r.refit.phaseCount === 1 ? "" : "s"})` : ""} · {new Date(r.createdAt).toLocaleString("en-GB", { dateStyle: "short", timeStyle: "short" })}
             {r.createdByName ? ` · ${r.createdByName}` : ""}
             {r.durationMs != null ? ` · ${(r.durationMs / 1000).toFixed(1)} s` : ""}
           </span>

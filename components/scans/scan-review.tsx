@@ -10,13 +10,14 @@ import { Card, Skeleton } from "@/components/ui/card";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { AddPhase } from "./add-phase";
 import { CandidateList, OVERLAY_COLORS } from "./candidate-list";
-import { Diffractogram, type Overlay } from "./diffractogram";
+import { Diffractogram, type Overlay, type PhaseCurve } from "./diffractogram";
+import { FitPanel, MAX_FIT_PHASES, PHASE_COLORS, type FitChange } from "./fit-panel";
 import { PeakTable } from "./peak-table";
 import { processBody, ReprocessForm } from "./reprocess-form";
 import { RunList } from "./run-list";
 import { isPending, ScanStatusBadge } from "./scan-status";
 import { SignOffPanel } from "./sign-off-panel";
-import type { PhaseRow, ScanDetail } from "./types";
+import type { PhaseRow, RefitResponse, ScanDetail, SparseCurve } from "./types";
 
 interface RefPattern {
   pattern: { wavelength: number; lines: { twoTheta: number; d: number; intensity: number }[] };
@@ -40,12 +41,23 @@ function scaledOverlay(p: PhaseRow, ref: RefPattern, maxPeakHeight: number, colo
   };
 }
 
+/** A phase's sparse profile drawn on the fit's background; null where the phase contributes nothing. */
+function phaseCurve(profile: SparseCurve, background: number[]): (number | null)[] {
+  const out = new Array<number | null>(background.length).fill(null);
+  for (const [start, vals] of profile) for (let i = 0; i < vals.length && start + i < out.length; i++) out[start + i] = background[start + i] + vals[i];
+  return out;
+}
+
 function message(err: unknown): string | null {
   if (!err) return null;
   return err instanceof ApiError ? err.message : "Something went wrong; try again.";
 }
 
-/** The scan review page: diffractogram, peaks, ranked candidates, decisions, note, sign-off and runs. */
+/**
+ * The scan review page: diffractogram with the whole-pattern fit (calculated, difference and phase profiles), the
+ * fit's phases with wt% ± σ and evidence, refit controls, the peak-list search's ranked candidates, peaks,
+ * decisions, note, sign-off and runs.
+ */
 export function ScanReview({ projectId, scanId }: { projectId: string; scanId: string }) {
   const search = useSearchParams();
   const router = useRouter();
@@ -63,6 +75,7 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
   });
   const [overlayIds, setOverlayIds] = useState<string[]>([]);
   const [busyId, setBusyId] = useState<string | null>(null);
+  const [fitChange, setFitChange] = useState<FitChange | null>(null);
   const invalidate = () => qc.invalidateQueries({ queryKey: ["scan", projectId, scanId] });
   const base = `/api/projects/${projectId}/scans/${scanId}`;
 
@@ -84,6 +97,16 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
       void invalidate();
     },
   });
+  const refit = useMutation({
+    mutationFn: ({ phaseIds }: { phaseIds: string[]; what: string }) => fetchJson<RefitResponse>(`${base}/refit`, { method: "POST", json: { phaseIds } }),
+    onMutate: () => setFitChange(null),
+    onSuccess: (r, vars) => {
+      const from = data?.run?.profile?.fit?.stats;
+      if (from) setFitChange({ from, to: r.stats, what: vars.what, withdrawn: r.withdrawn });
+      router.replace(pathname);
+      void invalidate();
+    },
+  });
   const makeCurrent = useMutation({ mutationFn: (runId: string) => fetchJson(base, { method: "PATCH", json: { currentRunId: runId } }), onSuccess: () => { router.replace(pathname); void invalidate(); } });
 
   const run = data?.run;
@@ -99,10 +122,24 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
     })),
   });
   const maxPeak = useMemo(() => (run?.peaks ?? []).reduce((m, p) => Math.max(m, p.height), 0), [run]);
+  const fit = profile?.fit ?? null;
+  // Fitted phases in the fit's order (largest wt% first); every other row is the search's list or added by hand.
+  const fittedPhases = useMemo(() => {
+    const order = new Map((fit?.phases ?? []).map((p, i) => [p.referencePhaseId, i]));
+    return phases.filter((p) => p.fitted).sort((a, b) => (order.get(a.referencePhaseId) ?? 99) - (order.get(b.referencePhaseId) ?? 99));
+  }, [phases, fit]);
+  const colorOf = useMemo(() => {
+    const fitted = new Map((fit?.phases ?? []).map((p, i) => [p.referencePhaseId, PHASE_COLORS[i % PHASE_COLORS.length]]));
+    return (id: string) => fitted.get(id) ?? OVERLAY_COLORS[(Math.max(0, overlayIds.indexOf(id)) + 3) % OVERLAY_COLORS.length];
+  }, [fit, overlayIds]);
+  const phaseCurves: PhaseCurve[] = useMemo(
+    () => (fit ? fit.phases.map((p) => ({ id: p.referencePhaseId, label: p.mineral, color: colorOf(p.referencePhaseId), values: phaseCurve(p.profile, fit.background) })) : []),
+    [fit, colorOf],
+  );
   const overlays: Overlay[] = overlayIds.flatMap((id, i) => {
     const ref = refQueries[i]?.data;
     const p = phases.find((x) => x.referencePhaseId === id);
-    return ref && p ? [scaledOverlay(p, ref, maxPeak || 1, OVERLAY_COLORS[i % OVERLAY_COLORS.length])] : [];
+    return ref && p ? [scaledOverlay(p, ref, maxPeak || 1, colorOf(id))] : [];
   });
   const peakMarks = useMemo(() => (run?.peaks ?? []).map((p) => ({ twoTheta: p.twoTheta, height: p.height })), [run]);
 
@@ -114,8 +151,11 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
   const viewingCurrent = !run || run.id === scan.currentRunId;
   const locked = signed || !viewingCurrent;
   const accepted = phases.filter((p) => p.status === "accepted");
-  // Cautions follow what is accepted, the leading candidate and any confident candidate still undecided.
-  const cautionPhases = phases.filter((p) => p.status === "accepted" || (p.status === "candidate" && (p.rank === 1 || p.confident)));
+  // Cautions follow what is accepted, the fit's phases, the search's leading candidate and any strong candidate undecided.
+  const cautionPhases = phases.filter((p) => p.status === "accepted" || (p.status === "candidate" && (p.fitted || p.rank === 1 || p.confident)));
+  const others = phases.filter((p) => !p.fitted);
+  const fitIds = fittedPhases.map((p) => p.referencePhaseId);
+  const canRefit = !!fit && data.canReview && !locked;
   const settings = (scan.settingsJson ?? {}) as Record<string, unknown>;
   const notes = [...((settings.notes as string[] | undefined) ?? []), ...(profile?.warnings ?? [])];
   const pending = run && (run.status === "queued" || run.status === "running");
@@ -176,9 +216,28 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
       <div className="grid gap-4 xl:grid-cols-3">
         <div className="space-y-4 xl:col-span-2">
           <Card>
-            <h2 className="mb-2 font-semibold">Diffractogram</h2>
+            <div className="mb-2 flex flex-wrap items-baseline justify-between gap-2">
+              <h2 className="font-semibold">Diffractogram</h2>
+              {fit && (
+                <p className="text-sm tabular-nums" data-testid="fit-summary">
+                  Whole-pattern fit: Rwp {fit.stats.rwp.toFixed(2)} % · Rexp {fit.stats.rexp.toFixed(2)} % · χ² {fit.stats.gof.toFixed(2)}
+                </p>
+              )}
+            </div>
             {profile ? (
-              <Diffractogram twoTheta={profile.twoTheta} raw={profile.raw} background={profile.background} processed={profile.processed} fitted={profile.fitted} peaks={peakMarks} wavelength={profile.wavelength} overlays={overlays} />
+              <Diffractogram
+                twoTheta={profile.twoTheta}
+                raw={profile.raw}
+                background={fit?.background ?? profile.background}
+                processed={profile.processed}
+                fitted={profile.fitted}
+                calculated={fit?.calculated}
+                difference={fit?.difference}
+                phases={phaseCurves}
+                peaks={peakMarks}
+                wavelength={profile.wavelength}
+                overlays={overlays}
+              />
             ) : (
               <Skeleton className="h-80 w-full" />
             )}
@@ -197,6 +256,30 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
           </Card>
           {run && run.status === "done" && profile && (
             <Card>
+              <h2 className="mb-1 font-semibold">Phases in the whole-pattern fit</h2>
+              {!signed && <CandidatesNotice className="mb-3" />}
+              {fit ? (
+                <FitPanel
+                  fit={fit}
+                  phases={fittedPhases}
+                  colorOf={colorOf}
+                  unexplained={run.unexplained}
+                  canReview={data.canReview}
+                  locked={locked}
+                  refitting={refit.isPending}
+                  refitError={message(refit.error)}
+                  change={fitChange}
+                  busyId={busyId}
+                  onRefit={(phaseIds, what) => refit.mutate({ phaseIds, what })}
+                  onDecide={(p, status) => decide.mutate({ p, status })}
+                />
+              ) : (
+                <p className="text-sm text-muted">This run was processed before whole-pattern fitting existed; re-process the scan to fit the whole pattern.</p>
+              )}
+            </Card>
+          )}
+          {run && run.status === "done" && profile && (
+            <Card>
               <h2 className="mb-2 font-semibold">Peaks</h2>
               <PeakTable peaks={run.peaks} unexplained={run.unexplained} wavelength={profile.wavelength} />
             </Card>
@@ -205,19 +288,26 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
         <div className="space-y-4">
           {run && run.status === "done" && (
             <Card>
-              <h2 className="mb-2 font-semibold">Candidate phases</h2>
-              {!signed && <CandidatesNotice className="mb-3" />}
-              {profile?.noConfidentMatch && <p className="mb-2 text-sm text-oxide">No confident match: amorphous material, a phase not in the library, or too few peaks.</p>}
-              <p className="mb-2 text-xs text-muted">Weight % are semi-quantitative (RIR method, Chung 1974): normalised over the phases the search accepted, assuming no amorphous or unidentified content.</p>
+              <h2 className="mb-1 font-semibold">{fit ? "Other candidates" : "Candidate phases"}</h2>
+              <p className="mb-2 text-xs text-muted">
+                {fit
+                  ? `Ranked by the peak-list search (strong-line look-up and figure of merit); the whole-pattern fit did not keep them.${canRefit ? " Add one to the fit to test it against the whole profile." : ""}`
+                  : "Weight % are semi-quantitative (RIR method, Chung 1974): normalised over the phases the search accepted, assuming no amorphous or unidentified content."}
+              </p>
+              {!fit && !signed && <CandidatesNotice className="mb-3" />}
+              {!fit && profile?.noConfidentMatch && <p className="mb-2 text-sm text-oxide">No confident match: amorphous material, a phase not in the library, or too few peaks.</p>}
               <CandidateList
-                phases={phases}
+                phases={fit ? others : phases}
                 mixture={profile?.mixture ?? []}
                 canReview={data.canReview}
                 locked={locked}
                 busyId={busyId}
                 overlayIds={overlayIds}
+                colorOf={colorOf}
                 onToggleOverlay={(p) => setOverlayIds((ids) => (ids.includes(p.referencePhaseId) ? ids.filter((x) => x !== p.referencePhaseId) : [...ids, p.referencePhaseId]))}
                 onDecide={(p, status) => decide.mutate({ p, status })}
+                onAddToFit={canRefit && fitIds.length < MAX_FIT_PHASES ? (p) => refit.mutate({ phaseIds: [...fitIds, p.referencePhaseId], what: `Added ${p.mineral}` }) : undefined}
+                refitting={refit.isPending}
               />
               {decide.error && (
                 <p role="alert" className="mt-2 text-xs font-medium text-danger">
@@ -225,9 +315,12 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
                 </p>
               )}
               {data.canReview && !locked && (
-                <div className="mt-4 border-t border-line pt-3">
-                  <AddPhase busy={addPhase.isPending} error={message(addPhase.error)} onAdd={(referencePhaseId, note) => addPhase.mutate({ referencePhaseId, note })} />
-                </div>
+                <details className="mt-4 border-t border-line pt-3">
+                  <summary className="cursor-pointer text-sm font-medium text-brand">Accept a library phase without fitting it</summary>
+                  <div className="mt-2">
+                    <AddPhase busy={addPhase.isPending} error={message(addPhase.error)} onAdd={(referencePhaseId, note) => addPhase.mutate({ referencePhaseId, note })} />
+                  </div>
+                </details>
               )}
             </Card>
           )}
@@ -238,7 +331,9 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
                 key={scan.analystNote ?? ""}
                 note={scan.analystNote}
                 accepted={accepted}
-                undecided={phases.filter((p) => p.status === "candidate").length}
+                undecided={phases.filter((p) => p.status === "candidate" && (p.fitted || !fit)).length}
+                fit={fit ? fit.stats : null}
+                record={scan.signOffJson}
                 canReview={data.canReview}
                 locked={locked}
                 signedOff={signed ? { by: scan.signedOffByName, at: scan.signedOffAt } : null}

@@ -25,7 +25,13 @@ export interface PhaseRow {
   rank: number | null;
   score: number | null;
   confident: boolean;
+  /** Whole-pattern wt% (fitted phases only). */
   wtPercent: number | null;
+  wtSigma: number | null;
+  /** Kept by the whole-pattern fit of this run (still a candidate until sign-off). */
+  fitted: boolean;
+  /** The fit's account of the phase (fitted phases only). */
+  fit: StoredFit | null;
   matched: MatchedLine[] | null;
   source: "auto" | "manual";
   status: "candidate" | "accepted" | "rejected";
@@ -52,10 +58,22 @@ export interface PeakRow {
   crystalliteNm: number | null;
 }
 
-/** The stored run profile, as the review page receives it (type only; no server code reaches the client). */
-import type { RunProfile } from "@/lib/jobs/process-run";
+/** The stored run profile, as the review page receives it (types only; no server code reaches the client). */
+import type { RunFit, RunProfile, SparseCurve, StoredFit } from "@/lib/jobs/analyse-scan";
+import type { SignOffRecord } from "@/lib/dal/scan-review";
 
-export type { RunProfile };
+export type { RunFit, RunProfile, SignOffRecord, SparseCurve, StoredFit };
+
+/** What POST …/refit returns. */
+export interface RefitResponse {
+  runId: string;
+  fromRunId: string;
+  stats: RunFit["stats"];
+  noConfidentMatch: boolean;
+  phases: { referencePhaseId: string; mineral: string; wtPercent: number | null; wtSigma: number | null }[];
+  withdrawn: string[];
+  elapsedMs: number;
+}
 
 export interface ScanDetail {
   scan: {
@@ -80,15 +98,29 @@ export interface ScanDetail {
     analystNote: string | null;
     signedOffAt: string | null;
     signedOffByName: string | null;
+    /** What the sign-off recorded (fit statistics with the phases); null before sign-off. */
+    signOffJson: SignOffRecord | null;
     createdAt: string;
   };
   sample: { id: string; code: string; status: string; suspectedAsbestos: boolean; lithology: string | null };
-  runs: { id: string; status: RunStatus; error: string | null; durationMs: number | null; createdAt: string; createdByName: string | null; softwareVersion: string; progress: RunProgress | null; current: boolean }[];
+  runs: {
+    id: string;
+    status: RunStatus;
+    error: string | null;
+    durationMs: number | null;
+    createdAt: string;
+    createdByName: string | null;
+    softwareVersion: string;
+    /** Set on a refit: the run it refits and how many phases the analyst chose. */
+    refit: { fromRunId: string; phaseCount: number } | null;
+    progress: RunProgress | null;
+    current: boolean;
+  }[];
   run: {
     id: string;
     status: RunStatus;
     error: string | null;
-    params: { requested: Record<string, unknown>; resolved?: { processing: Record<string, unknown>; identify: Record<string, unknown> } };
+    params: { requested: Record<string, unknown>; refit?: { fromRunId: string; phaseIds: string[] }; resolved?: { processing: Record<string, unknown>; identify?: Record<string, unknown> } };
     progress: RunProgress | null;
     profile: RunProfile | null;
     unexplained: { twoTheta: number; d: number; intensity: number }[];
