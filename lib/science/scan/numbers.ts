@@ -48,19 +48,23 @@ const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
  * that is not such a decimal returns NaN and goes the general way (`readCell`).
  */
 export function plainDecimal(s: string, decimalComma = false): number {
-  const n = s.length;
-  if (n === 0) return NaN;
-  let i = 0;
+  return plainDecimalIn(s, 0, s.length, decimalComma);
+}
+
+/** {@link plainDecimal} on the characters [a, b) of `s`, without cutting them out first. */
+export function plainDecimalIn(s: string, a: number, b: number, decimalComma = false): number {
+  if (b <= a) return NaN;
+  let i = a;
   let neg = false;
-  let c = s.charCodeAt(0);
+  let c = s.charCodeAt(a);
   if (c === 45) {
     neg = true;
-    i = 1;
-  } else if (c === 43) i = 1;
+    i++;
+  } else if (c === 43) i++;
   let mant = 0;
   let digits = 0;
   let frac = -1;
-  for (; i < n; i++) {
+  for (; i < b; i++) {
     c = s.charCodeAt(i);
     if (c >= 48 && c <= 57) {
       mant = mant * 10 + (c - 48);
@@ -69,25 +73,26 @@ export function plainDecimal(s: string, decimalComma = false): number {
     else break;
   }
   if (digits === 0) return NaN;
-  if (i === n && digits <= 15) {
+  if (i === b && digits <= 15) {
     const scale = frac < 0 ? 0 : digits - frac;
     const v = scale === 0 ? mant : mant / POW10[scale];
     return neg ? -v : v;
   }
-  if (i < n) {
+  if (i < b) {
     // Exponent: e or E, optional sign, at least one digit, then the end.
     if (c !== 101 && c !== 69) return NaN;
     i++;
     c = s.charCodeAt(i);
-    if (c === 43 || c === 45) i++;
+    if (i < b && (c === 43 || c === 45)) i++;
     const start = i;
-    for (; i < n; i++) {
+    for (; i < b; i++) {
       c = s.charCodeAt(i);
       if (c < 48 || c > 57) return NaN;
     }
     if (i === start) return NaN;
   }
-  const v = Number(decimalComma ? s.replace(",", ".") : s);
+  const text = a === 0 && b === s.length ? s : s.slice(a, b);
+  const v = Number(decimalComma ? text.replace(",", ".") : text);
   return Number.isFinite(v) ? v : NaN;
 }
 

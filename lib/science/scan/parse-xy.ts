@@ -4,7 +4,7 @@ import { mapColumns, splitXyHeader, classifyColumnName, type ColumnMap } from ".
 import { ScanParseError } from "./errors";
 import { applyHeaderLine, emptyMeta } from "./header";
 import { forEachLine, isCommentStart } from "./lines";
-import { CellKind, plainDecimal, readCell } from "./numbers";
+import { CellKind, plainDecimal, plainDecimalIn, readCell } from "./numbers";
 
 const FIELDS = ["twoTheta", "counts", "esd"] as const;
 /** Most columns read from a file whose header names them (extra named columns such as a calculated curve). */
@@ -24,6 +24,28 @@ function splitCells(line: string, out: string[]): number {
     out[n++] = line.slice(start, i);
   }
   return n;
+}
+
+/**
+ * Read a line of exactly `count` plain decimal cells separated by spaces or tabs into `out`; false for anything else
+ * (comments, other cell counts, separators, non-numbers), which then goes the careful way with its error messages.
+ */
+function fastRow(line: string, count: number, out: Float64Array): boolean {
+  const len = line.length;
+  let i = 0;
+  let k = 0;
+  while (i < len) {
+    let c = line.charCodeAt(i);
+    while (c === 32 || c === 9) c = line.charCodeAt(++i);
+    if (i >= len) break;
+    if (k === count) return false;
+    const start = i;
+    while (i < len && c !== 32 && c !== 9) c = line.charCodeAt(++i);
+    const v = plainDecimalIn(line, start, i);
+    if (v !== v) return false; // NaN: not a plain decimal
+    out[k++] = v;
+  }
+  return k === count;
 }
 
 /** A header line is column names when every name is recognised, or when its name count matches the data. */
@@ -48,7 +70,13 @@ export function parseXy(text: string, limits: ScanLimits): Scan {
   let map: (ColumnMap & { headerLine?: number }) | null = null;
   let plain = true; // columns are 2θ, counts[, esd] in that order
   const cells: string[] = [];
+  const row = new Float64Array(3);
   forEachLine(text, (raw, lineNo) => {
+    // Fast path for a data line of the plain layout: numbers read in place, no cells cut out.
+    if (plain && columns > 0 && fastRow(raw, columns, row)) {
+      points.push(row[0], row[1], columns === 3 ? row[2] : NaN, lineNo);
+      return;
+    }
     const n = splitCells(raw, cells);
     if (n === 0) return;
     const c0 = cells[0].charCodeAt(0);
