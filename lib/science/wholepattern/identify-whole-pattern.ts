@@ -23,11 +23,11 @@ import type { StrongLineIndex } from "@/lib/science/identify/types";
 import type { ReferencePattern } from "@/lib/science/types";
 import { alignCandidate, signalMap } from "./align";
 import { fitCaglioti } from "./caglioti";
-import { gramSystem, nnlsFromGram } from "./nnls";
+import { gramSystem, nnlsFromGram, type ProductCache } from "./nnls";
 import { phaseLines, type PhaseLines } from "./phase-lines";
 import { cagliotiFwhm, linePosition, lowerBound, renderPhase } from "./profile";
 import { hillHoward, internalStandard, type QuantPhase } from "./quantify";
-import { commonSeries } from "./series";
+import { commonSeries, seriesOf } from "./series";
 import { fitData, refineFit, scaleSigmas, type FitData, type FitEvaluation, type FitPhase } from "./refine";
 import type { EvidenceLine, FittedPhase, GlobalProfile, PhaseProfileParams, RejectedCandidate, UnexplainedPeak, WholePatternOptions, WholePatternResult } from "./types";
 
@@ -39,6 +39,9 @@ const TEXTURE_R = 0.6;
 const BROAD = 2.2;
 /** Lines of its own a phase must show (a line where it carries most of the calculated profile, on an observed peak). */
 const MIN_ALONE_LINES = 2;
+/** A phase without lines of its own stays only with ΔBIC ≥ this multiple of the threshold and this profile share. */
+const STRONG_DELTA_BIC = 10;
+const STRONG_SHARE = 0.05;
 /** Marker in the rejected list: significant by BIC but without lines of its own. */
 const NO_OWN_LINES = -1e9;
 /** Selected phases whose unit profiles correlate above this are one phase to a pattern (merged in the report). */
@@ -47,6 +50,8 @@ const LOOKALIKE_COSINE = 0.8;
 const MAX_LOOKALIKES = 4;
 /** Prior standard deviation of the cell scale (relative), used only to choose between equally good look-alikes. */
 const CELL_PRIOR = 0.005;
+/** Candidates tried again in the second forward pass (those explaining most of the remainder). */
+const SECOND_PASS_TRIES = 10;
 /** Groups tried exactly (NNLS) at each forward step, after the single-column prescreen. */
 const EXACT_TRIES = 8;
 /** Number of background-correction columns (Chebyshev T0…T3, each with both signs). */
@@ -134,9 +139,10 @@ function forwardSelect(
   nEff: number,
   minDeltaBic: number,
   maxAdd: number,
+  cache?: ProductCache,
 ): Selection {
   const cols = [...fixed, ...groups.flat()];
-  const { G, b, yty } = gramSystem(cols, y, w);
+  const { G, b, yty } = gramSystem(cols, y, w, cache);
   const n = cols.length;
   const groupCols: number[][] = [];
   let at = fixed.length;
@@ -194,7 +200,7 @@ function removalDeltaBic(data: FitData, ev: FitEvaluation, nEff: number): number
   const lnN = Math.log(nEff);
   const perPhaseParams = (k: number) => 3 + (ev.phases[k].lines.cosAlpha && ev.phases[k].params.marchR !== null ? 1 : 0);
   const cols = [...ev.renders.map((r) => r.value), ...data.backgroundPairs];
-  const { G, b, yty } = gramSystem(cols, data.y, data.w);
+  const { G, b, yty } = gramSystem(cols, data.y, data.w, data.cache);
   const all = cols.map((_, i) => i);
   const full = nnlsFromGram(G, cols.length, b, yty, all).chi2;
   return ev.phases.map((_, k) => {
@@ -317,11 +323,13 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
 
   // 2. Forward selection (or the analyst's phases).
   let chosen: Candidate[];
+  let firstColumns: Float64Array[][] = [];
   const tried = new Map<number, number>();
   if (forced) chosen = shortlist;
   else {
-    const groups = shortlist.map((c) => selectionColumns(x, c, global));
-    const sel = forwardSelect(bgColumns, groups, y, w, nEff, minDeltaBic, maxPhases);
+    firstColumns = shortlist.map((c) => selectionColumns(x, c, global));
+    const groups = firstColumns;
+    const sel = forwardSelect(bgColumns, groups, y, w, nEff, minDeltaBic, maxPhases, data.cache);
     sel.lastTried.forEach((d, c) => tried.set(shortlist[c].index, d));
     chosen = sel.chosen.map((c) => shortlist[c]);
   }
@@ -334,16 +342,32 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
     for (let i = 0; i < n; i++) resid[i] = y[i] - fit.calc[i];
     const residMap = signalMap(x, smoothNet(resid, 1), sigma);
     const inFit = new Set(chosen.map((c) => c.index));
+    // Only the candidates whose first-pass column explains most of the remainder are realigned and tried again.
+    const drop = (col: Float64Array) => {
+      let cr = 0;
+      let cc = 0;
+      for (let i = 0; i < n; i++) {
+        const v = col[i];
+        if (v === 0) continue;
+        cr += w[i] * v * resid[i];
+        cc += w[i] * v * v;
+      }
+      return cr > 0 && cc > 0 ? (cr * cr) / cc : 0;
+    };
     const rest = shortlist
-      .filter((c) => !inFit.has(c.index))
-      .map((c) => {
+      .map((c, k) => ({ c, k }))
+      .filter(({ c }) => !inFit.has(c.index))
+      .map(({ c, k }) => ({ c, gain: Math.max(...firstColumns[k].map(drop)) }))
+      .sort((a, b) => b.gain - a.gain)
+      .slice(0, SECOND_PASS_TRIES)
+      .map(({ c }) => {
         const a = alignCandidate(residMap, c.lines, fit.global);
         return { ...c, params: { ...c.params, cellScale: a.cellScale } };
       });
     if (rest.length && chosen.length < maxPhases) {
       const fixed = [...bgColumns, ...fit.renders.map((r) => r.value)];
       const groups = rest.map((c) => selectionColumns(x, c, fit.global));
-      const sel = forwardSelect(fixed, groups, y, w, nEff, minDeltaBic, maxPhases - chosen.length);
+      const sel = forwardSelect(fixed, groups, y, w, nEff, minDeltaBic, maxPhases - chosen.length, data.cache);
       sel.lastTried.forEach((d, c) => tried.set(rest[c].index, d));
       if (sel.chosen.length) {
         const added = sel.chosen.map((c) => rest[c]);
@@ -354,14 +378,16 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
     for (;;) {
       if (fit.phases.length === 0) break;
       const deltas = removalDeltaBic(data, fit, nEff);
-      // A phase must bring a significant improvement and show at least two lines of its own.
+      // A phase must bring a significant improvement and show at least two lines of its own, unless its whole
+      // profile is overwhelming evidence (a phase whose lines all overlap others', e.g. biotite beside muscovite).
       const own = fit.phases.map((_, k) => aloneLines(x, fit, k, phaseProfile(fit, k), y, sigma, processed).length);
+      const weak = (k: number) => own[k] < MIN_ALONE_LINES && !(deltas[k] >= STRONG_DELTA_BIC * minDeltaBic && share(fit, k) >= STRONG_SHARE);
       let worst = -1;
       deltas.forEach((d, k) => {
-        if ((d < minDeltaBic || own[k] < MIN_ALONE_LINES) && (worst < 0 || d < deltas[worst])) worst = k;
+        if ((d < minDeltaBic || weak(k)) && (worst < 0 || d < deltas[worst])) worst = k;
       });
       if (worst < 0) break;
-      tried.set(chosen[worst].index, own[worst] < MIN_ALONE_LINES && deltas[worst] >= minDeltaBic ? NO_OWN_LINES : deltas[worst]);
+      tried.set(chosen[worst].index, weak(worst) && deltas[worst] >= minDeltaBic ? NO_OWN_LINES : deltas[worst]);
       chosen = chosen.filter((_, k) => k !== worst);
       fit = refineFit(data, fit.phases.filter((_, k) => k !== worst), fit.global, { maxIterations });
     }
@@ -380,7 +406,7 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
     const trials = others.map((c) => {
       const cellScale = self.params.cellScale * (self.lines.d[0] && c.lines.count ? bestRatio(c.lines, self.lines) : 1);
       const swapped = fit.phases.map((p, j) => (j === k ? { lines: c.lines, params: { ...self.params, cellScale: Math.min(1.015, Math.max(0.985, cellScale)), marchR: c.lines.cosAlpha ? (self.params.marchR ?? 1) : null } } : p));
-      const ev = refineFit(data, swapped, fit.global, { maxIterations: 12 });
+      const ev = refineFit(data, swapped, fit.global, { maxIterations: 12, only: k, frozen: fit });
       return { c, ev, s: score(ev, k) };
     });
     const ownScore = score(fit, k);
@@ -575,10 +601,11 @@ function mergeLookalikes(phases: FittedPhase[], fit: FitEvaluation, data: FitDat
       const seen = new Set([lead.referenceId]);
       lead.alternatives = [...rest.map((p) => ({ referenceId: p.referenceId, mineral: p.mineral })), ...lead.alternatives, ...rest.flatMap((p) => p.alternatives)].filter((a) => !seen.has(a.referenceId) && seen.add(a.referenceId));
     }
-    const series = commonSeries([lead.mineral, ...lead.alternatives.map((a) => a.mineral)]);
-    if (lead.alternatives.length && series) {
+    const own = seriesOf(lead.mineral);
+    const series = lead.alternatives.length ? commonSeries([lead.mineral, ...lead.alternatives.map((a) => a.mineral)]) : own?.report === "always" ? own : undefined;
+    if (series) {
       lead.series = series.name;
-      if (series.report === "series") lead.mineral = series.name;
+      if (series.report !== "member") lead.mineral = series.name;
     }
     out.push(lead);
   }
@@ -629,6 +656,16 @@ function sharesLines(c: PhaseLines, p: PhaseLines, pCell: number): boolean {
     if (hit >= 0.7 * total) return true;
   }
   return false;
+}
+
+/** Share of the calculated net profile that phase k explains. */
+function share(fit: FitEvaluation, k: number): number {
+  let own = 0;
+  let all = 0;
+  const r = fit.renders[k];
+  for (let i = r.span[0]; i <= r.span[1]; i++) own += fit.scales[k] * r.value[i];
+  for (let i = 0; i < fit.calc.length; i++) all += Math.max(0, fit.calc[i]);
+  return all > 0 ? own / all : 0;
 }
 
 /** Phase k's scaled contribution on the grid. */

@@ -52,6 +52,16 @@ export function nnlsFromGram(G: Float64Array, n: number, b: Float64Array, yty: n
   return { x, chi2: Math.max(chi2, 0) };
 }
 
+/**
+ * Products of columns that never change during a fit (background terms) with each other and with the data, kept
+ * between Gram builds. Valid for one y and one w.
+ */
+export interface ProductCache {
+  stable: Set<Float64Array>;
+  products: Map<Float64Array, Map<Float64Array, number>>;
+  yty: number;
+}
+
 /** Columns registered as the negation of another (background terms used with both signs). */
 const mirrors = new WeakMap<Float64Array, Float64Array>();
 /** Non-zero index segments of a column, cached (columns are rendered once and reused across many systems). */
@@ -106,7 +116,12 @@ function weightedDot(a: Float64Array, sa: Int32Array, b: Float64Array, sb: Int32
  * Gram system of the columns: G = AᵀWA, b = AᵀWy, yᵀWy. Products run only over the columns' non-zero segments,
  * and a column made by {@link mirroredColumn} reuses its source's products with the sign flipped.
  */
-export function gramSystem(columns: readonly Float64Array[], y: Float64Array, w: Float64Array): { G: Float64Array; b: Float64Array; yty: number } {
+export function gramSystem(
+  columns: readonly Float64Array[],
+  y: Float64Array,
+  w: Float64Array,
+  cache?: ProductCache,
+): { G: Float64Array; b: Float64Array; yty: number } {
   const n = columns.length;
   const len = y.length;
   // Canonical (unique) columns and the sign of each input column.
@@ -131,12 +146,31 @@ export function gramSystem(columns: readonly Float64Array[], y: Float64Array, w:
   const Gu = new Float64Array(u * u);
   const bu = new Float64Array(u);
   const allY = Int32Array.of(0, len - 1);
-  let yty = 0;
-  for (let i = 0; i < len; i++) yty += w[i] * y[i] * y[i];
+  const dot = (a: number, bIdx: number | -1): number => {
+    const A = uniq[a];
+    const B = bIdx < 0 ? y : uniq[bIdx];
+    const stable = cache && cache.stable.has(A) && (bIdx < 0 || cache.stable.has(B));
+    if (stable) {
+      const hit = cache.products.get(A)?.get(B);
+      if (hit !== undefined) return hit;
+    }
+    const v = weightedDot(A, segs[a], B, bIdx < 0 ? allY : segs[bIdx], w);
+    if (stable) {
+      if (!cache.products.has(A)) cache.products.set(A, new Map());
+      cache.products.get(A)!.set(B, v);
+    }
+    return v;
+  };
+  let yty = cache?.yty ?? -1;
+  if (yty < 0) {
+    yty = 0;
+    for (let i = 0; i < len; i++) yty += w[i] * y[i] * y[i];
+    if (cache) cache.yty = yty;
+  }
   for (let p = 0; p < u; p++) {
-    bu[p] = weightedDot(uniq[p], segs[p], y, allY, w);
+    bu[p] = dot(p, -1);
     for (let q = p; q < u; q++) {
-      const t = weightedDot(uniq[p], segs[p], uniq[q], segs[q], w);
+      const t = dot(p, q);
       Gu[p * u + q] = t;
       Gu[q * u + p] = t;
     }

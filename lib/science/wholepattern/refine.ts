@@ -10,7 +10,7 @@
  */
 import { Matrix, solve } from "ml-matrix";
 import { emptyRender, renderPhaseWithDerivatives, type PhaseRender } from "./derivatives";
-import { gramInverse, gramSystem, mirroredColumn, nnlsFromGram } from "./nnls";
+import { gramInverse, gramSystem, mirroredColumn, nnlsFromGram, type ProductCache } from "./nnls";
 import type { PhaseLines } from "./phase-lines";
 import type { GlobalProfile, PhaseProfileParams } from "./types";
 
@@ -31,11 +31,13 @@ export interface FitData {
   background: readonly Float64Array[];
   /** The same columns as NNLS sees them: [+b₀, −b₀, +b₁, −b₁, …]. */
   backgroundPairs: readonly Float64Array[];
+  /** Products among the background columns and with y, computed once. */
+  cache: ProductCache;
 }
 
 /** Fit data with the signed background pairs precomputed. */
 export function fitData(x: Float64Array, y: Float64Array, w: Float64Array, background: readonly Float64Array[]): FitData {
-  return { x, y, w, background, backgroundPairs: background.flatMap((c) => [c, mirroredColumn(c)]) };
+  return { x, y, w, background, backgroundPairs: background.flatMap((c) => [c, mirroredColumn(c)]), cache: { stable: new Set(background), products: new Map(), yty: -1 } };
 }
 
 /** A fit evaluated at one set of non-linear parameters. */
@@ -65,6 +67,12 @@ export interface RefineOptions {
   eta?: boolean;
   /** Limits of the cell scale. @default [0.985, 1.015] */
   cellLimits?: [number, number];
+  /**
+   * Refine only this phase (its cell, width and texture, with every scale): the other phases keep the profiles of
+   * `frozen` and the global parameters stay fixed. For trying a look-alike in one phase's place cheaply.
+   */
+  only?: number | null;
+  frozen?: FitEvaluation;
 }
 
 /** Bounds of the refined quantities (common practice for a qualitative/semi-quantitative fit). */
@@ -74,9 +82,10 @@ const WIDTH_LIMITS: [number, number] = [0.5, 8];
 const MARCH_LIMITS: [number, number] = [0.3, 1.3];
 
 /** Evaluate the fit: render every phase, then solve the non-negative scales and background correction. */
-export function evaluateFit(data: FitData, phases: FitPhase[], global: GlobalProfile, reuse?: PhaseRender[]): FitEvaluation {
+export function evaluateFit(data: FitData, phases: FitPhase[], global: GlobalProfile, reuse?: PhaseRender[], frozen?: { renders: PhaseRender[]; except: number }): FitEvaluation {
   const n = data.x.length;
   const renders = phases.map((ph, k) => {
+    if (frozen && k !== frozen.except) return frozen.renders[k];
     const r = reuse?.[k] ?? emptyRender(n, ph.lines.cosAlpha !== null);
     if (r.dLnR === null && ph.lines.cosAlpha !== null) return emptyRender(n, true);
     renderPhaseWithDerivatives(data.x, ph.lines, global, ph.params, r);
@@ -90,7 +99,7 @@ export function solveLinear(data: FitData, phases: FitPhase[], global: GlobalPro
   const n = data.x.length;
   const m = phases.length;
   const cols: Float64Array[] = [...renders.map((r) => r.value), ...data.backgroundPairs];
-  const { G, b, yty } = gramSystem(cols, data.y, data.w);
+  const { G, b, yty } = gramSystem(cols, data.y, data.w, data.cache);
   const all = cols.map((_, i) => i);
   const sol = nnlsFromGram(G, cols.length, b, yty, all);
   const scales = sol.x.slice(0, m);
@@ -142,12 +151,14 @@ function sumScaled(ev: FitEvaluation, pick: (r: PhaseRender) => Float64Array | n
 
 function parameters(phases: FitPhase[], opts: Required<RefineOptions>): Param[] {
   const out: Param[] = [];
+  const only = opts.only;
   if (opts.zeroShift)
     out.push({ get: (_, g) => g.zeroShift, set: (_, g, v) => (g.zeroShift = v), lo: -ZERO_LIMIT, hi: ZERO_LIMIT, jac: (ev, o) => sumScaled(ev, (r) => r.dZero, o) });
   if (opts.displacement)
     out.push({ get: (_, g) => g.displacementMm, set: (_, g, v) => (g.displacementMm = v), lo: -DISP_LIMIT, hi: DISP_LIMIT, jac: (ev, o) => sumScaled(ev, (r) => r.dDisp, o) });
   if (opts.eta) out.push({ get: (_, g) => g.eta, set: (_, g, v) => (g.eta = v), lo: 0, hi: 1, jac: (ev, o) => sumScaled(ev, (r) => r.dEta, o) });
   phases.forEach((ph, k) => {
+    if (only !== null && k !== only) return;
     out.push({
       get: (p) => p[k].params.cellScale,
       set: (p, _, v) => (p[k].params.cellScale = v),
@@ -181,13 +192,23 @@ function parameters(phases: FitPhase[], opts: Required<RefineOptions>): Param[] 
 export function refineFit(data: FitData, start: FitPhase[], global: GlobalProfile, options: RefineOptions = {}): FitEvaluation & { iterations: number } {
   const opts: Required<RefineOptions> = {
     maxIterations: options.maxIterations ?? 25,
+    only: options.only ?? null,
+    frozen: options.frozen ?? (undefined as unknown as FitEvaluation),
     zeroShift: options.zeroShift ?? true,
     displacement: options.displacement ?? false,
     eta: options.eta ?? true,
     cellLimits: options.cellLimits ?? [0.985, 1.015],
   };
   const n = data.x.length;
-  let cur = evaluateFit(data, clonePhases(start), { ...global });
+  const only = opts.only;
+  if (only !== null) {
+    if (!options.frozen) throw new RangeError("refining one phase needs the frozen profiles of the others");
+    opts.zeroShift = false;
+    opts.displacement = false;
+    opts.eta = false;
+  }
+  const frozen = only !== null ? { renders: options.frozen!.renders, except: only } : undefined;
+  let cur = evaluateFit(data, clonePhases(start), { ...global }, undefined, frozen);
   if (start.length === 0) return { ...cur, iterations: 0 };
   let lambda = 1e-3;
   let it = 0;
@@ -229,7 +250,7 @@ export function refineFit(data: FitData, start: FitPhase[], global: GlobalProfil
         const v = p.get(phases, g) + delta[k];
         p.set(phases, g, Math.min(p.hi, Math.max(p.lo, Number.isFinite(v) ? v : p.get(phases, g))));
       });
-      const trial = evaluateFit(data, phases, g, spare);
+      const trial = evaluateFit(data, phases, g, spare, frozen);
       if (trial.chi2 < cur.chi2) {
         // Improvement in units of the reduced χ²: below one unit the change means nothing statistically.
         const gain = (cur.chi2 - trial.chi2) / Math.max(cur.chi2 / Math.max(1, n - P), 1e-300);

@@ -5,21 +5,23 @@
  * names of Deer, Howie & Zussman (2013, "An Introduction to the Rock-Forming Minerals", 3rd edn); tremolite–
  * actinolite (Hawthorne et al. 2012, Am. Mineral. 97, 2031).
  *
- * `report: "series"`: members differ so little in cell and intensities (continuous substitution, Al/Si order) that
- * a fit which cannot choose reports the series name. `report: "member"`: the cell parameter identifies the member
- * (garnets, spinels, olivines, carbonates differ by up to several percent), so the member needing the least cell
- * change is reported and the others are listed as alternatives.
+ * `report: "always"`: the series name is what a powder pattern supports even when one structure fits best (biotite
+ * compositions vary continuously; K-feldspar polymorphs differ by Al/Si order), so it is always the reported name.
+ * `report: "series"`: members differ so little in cell and intensities that a fit which cannot choose reports the
+ * series name. `report: "member"`: the cell parameter identifies the member (garnets, spinels, olivines,
+ * carbonates differ by up to several percent), so the member needing the least cell change is reported and the
+ * others are listed as alternatives.
  */
 
 export interface MineralSeries {
   name: string;
   members: readonly string[];
-  report: "series" | "member";
+  report: "always" | "series" | "member";
 }
 
 export const MINERAL_SERIES: readonly MineralSeries[] = [
-  { name: "biotite", members: ["annite", "phlogopite", "siderophyllite", "eastonite"], report: "series" },
-  { name: "K-feldspar", members: ["orthoclase", "microcline", "sanidine"], report: "series" },
+  { name: "biotite", members: ["annite", "phlogopite", "siderophyllite", "eastonite"], report: "always" },
+  { name: "K-feldspar", members: ["orthoclase", "microcline", "sanidine"], report: "always" },
   { name: "plagioclase", members: ["albite", "oligoclase", "andesine", "labradorite", "bytownite", "anorthite"], report: "series" },
   { name: "tremolite-actinolite", members: ["tremolite", "actinolite"], report: "series" },
   { name: "white mica", members: ["muscovite", "illite", "phengite"], report: "member" },
@@ -44,5 +46,5 @@ export function seriesOf(mineral: string): MineralSeries | undefined {
 export function commonSeries(minerals: readonly string[]): MineralSeries | undefined {
   const lower = minerals.map((m) => m.toLowerCase());
   const shared = MINERAL_SERIES.filter((s) => lower.every((m) => s.members.includes(m)));
-  return shared.find((s) => s.report === "series") ?? shared[0];
+  return shared.find((s) => s.report !== "member") ?? shared[0];
 }

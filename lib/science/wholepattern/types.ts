@@ -85,9 +85,9 @@ export interface FittedPhase {
    */
   alternatives: { referenceId: string; mineral: string }[];
   /**
-   * Series the phase and its alternatives belong to (e.g. "biotite", "garnet"). When the series is one a pattern
-   * cannot split (biotite, K-feldspar, plagioclase, tremolite-actinolite), `mineral` is the series name and
-   * `referenceId` the structure that was fitted.
+   * Series the phase and its alternatives belong to (e.g. "biotite", "garnet"). Biotite and K-feldspar are always
+   * reported by the series name; plagioclase and tremolite-actinolite when another member fits as well. Then
+   * `mineral` is the series name and `referenceId` the structure that was fitted.
    */
   series?: string;
   /** This phase's own calculated contribution on the scan grid (net counts). */
