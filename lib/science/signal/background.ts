@@ -67,7 +67,7 @@ function clipPass(src: Float64Array, dst: Float64Array, p: number): void {
   for (let i = p; i < n - p; i++) {
     const a = 0.5 * (src[i - p] + src[i + p]);
     const b = src[i];
-    dst[i] = a < b ? a : b;
+    dst[i] = Math.min(a, b);
   }
 }
 
