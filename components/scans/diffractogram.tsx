@@ -122,23 +122,27 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, ca
   const mainHeight = hasDiff && isShown("difference") ? Math.round(height * 0.74) : height;
   const diffHeight = height - Math.round(height * 0.74) + 44;
   const series: SeriesDef[] = useMemo(
+    // Drawn in this order: phase profiles underneath, then the curves, the observed counts and, on top, the calculated
+    // profile (thin, so the observed line shows through where they agree).
     () => [
-      { key: "raw", label: "Observed", color: OBSERVED_COLOR, width: 1, values: raw },
+      ...phases.map((p) => ({ key: `phase:${p.id}`, label: p.label, color: p.color, width: 1.25, values: p.values })),
       { key: "background", label: "Background", color: "#a08a5b", width: 1.25, dash: [6, 4], values: background },
       { key: "processed", label: "Processed (Kα1)", color: "#1d5c63", width: 1.25, values: processed },
       { key: "fitted", label: hasFit ? "Peak fit" : "Fitted profile", color: "rgba(120, 90, 160, 0.85)", width: 1.25, values: fitted },
-      ...(hasFit ? [{ key: "calculated", label: "Calculated (fit)", color: CALCULATED_COLOR, width: 1.5, values: calculated! }] : []),
-      ...phases.map((p) => ({ key: `phase:${p.id}`, label: p.label, color: p.color, width: 1.25, values: p.values })),
+      { key: "raw", label: "Observed", color: OBSERVED_COLOR, width: hasFit ? 1.5 : 1, values: raw },
+      ...(hasFit ? [{ key: "calculated", label: "Calculated (fit)", color: CALCULATED_COLOR, width: 1, values: calculated! }] : []),
     ],
     [raw, background, processed, fitted, hasFit, calculated, phases],
   );
-  const drawState = useRef({ peaks, overlays, showPeaks: isShown("peaks"), twoTheta, background, fitted: hasFit ? calculated! : fitted, log });
-  // What the draw hook paints on top of the curves (peak marks, reference lines); a redraw picks it up.
+  // Shaded area of each shown phase between its profile and the background (painted under the curves).
+  const fills = useMemo(() => phases.map((p) => ({ color: p.color, values: p.values, show: shown[`phase:${p.id}`] ?? true })), [phases, shown]);
+  const drawState = useRef({ peaks, overlays, showPeaks: isShown("peaks"), twoTheta, background, fitted: hasFit ? calculated! : fitted, log, fills });
+  // What the draw hooks paint under and on top of the curves (phase areas, peak marks, reference lines); a redraw picks it up.
   const showPeaks = isShown("peaks");
   useEffect(() => {
-    drawState.current = { peaks, overlays, showPeaks, twoTheta, background, fitted: hasFit ? calculated! : fitted, log };
+    drawState.current = { peaks, overlays, showPeaks, twoTheta, background, fitted: hasFit ? calculated! : fitted, log, fills };
     plotRef.current?.redraw(false);
-  }, [peaks, overlays, showPeaks, twoTheta, background, fitted, calculated, hasFit, log]);
+  }, [peaks, overlays, showPeaks, twoTheta, background, fitted, calculated, hasFit, log, fills]);
 
   const data = useMemo(() => {
     const clamp = (a: (number | null)[]) => (log ? a.map((v) => (v == null ? null : Math.max(v, 1))) : a);
@@ -201,6 +205,45 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, ca
         hooks: {
           setCursor: [(u) => setReadout(u.cursor.idx ?? null)],
           setScale: [follow(() => diffPlotRef.current)],
+          // Before the series: each phase's contribution as a translucent area above the background.
+          drawAxes: [
+            (u) => {
+              const st = drawState.current;
+              if (!st.fills.some((f) => f.show)) return;
+              const ctx = u.ctx;
+              const { left, top, width: w, height: h } = u.bbox;
+              const xMin = u.scales.x.min ?? -Infinity;
+              const xMax = u.scales.x.max ?? Infinity;
+              const yMin = u.scales.y.min ?? 0;
+              const yPos = (v: number) => u.valToPos(st.log ? Math.max(v, Math.max(yMin, 1)) : v, "y", true);
+              const xs = st.twoTheta;
+              ctx.save();
+              ctx.beginPath();
+              ctx.rect(left, top, w, h);
+              ctx.clip();
+              ctx.globalAlpha = 0.28;
+              for (const f of st.fills) {
+                if (!f.show) continue;
+                ctx.fillStyle = f.color;
+                let i = 0;
+                while (i < xs.length) {
+                  if (f.values[i] == null || xs[i] < xMin) {
+                    i++;
+                    continue;
+                  }
+                  if (xs[i] > xMax) break;
+                  const start = i;
+                  while (i < xs.length && f.values[i] != null && xs[i] <= xMax) i++;
+                  ctx.beginPath();
+                  for (let k = start; k < i; k++) ctx.lineTo(u.valToPos(xs[k], "x", true), yPos(f.values[k]!));
+                  for (let k = i - 1; k >= start; k--) ctx.lineTo(u.valToPos(xs[k], "x", true), yPos(st.background[k]));
+                  ctx.closePath();
+                  ctx.fill();
+                }
+              }
+              ctx.restore();
+            },
+          ],
           draw: [
             (u) => {
               const st = drawState.current;
@@ -422,6 +465,7 @@ export function Diffractogram({ twoTheta, raw, background, processed, fitted, ca
         <div className="flex flex-wrap gap-1" role="group" aria-label="Curves shown">
           {series
             .filter((s) => !s.key.startsWith("phase:"))
+            .sort((a, b) => Number(b.key === "raw") - Number(a.key === "raw"))
             .map((s) => (
               <button key={s.key} type="button" className={btn} aria-pressed={isShown(s.key)} onClick={() => toggle(s.key)}>
                 <span aria-hidden className="mr-1 inline-block h-0.5 w-3 align-middle" style={{ background: s.color }} />

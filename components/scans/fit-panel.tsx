@@ -8,7 +8,7 @@ import { AddPhase } from "./add-phase";
 import type { PhaseRow, RunFit } from "./types";
 
 /** Colours of the phase profiles (the calculated profile is drawn in orange-red, the difference in teal). */
-export const PHASE_COLORS = ["#2563eb", "#059669", "#c026d3", "#b45309", "#7c3aed", "#0891b2", "#be123c", "#4d7c0f", "#db2777", "#475569"];
+export const PHASE_COLORS = ["#2563eb", "#059669", "#c026d3", "#7c3aed", "#0891b2", "#65a30d", "#db2777", "#475569", "#ca8a04", "#1e3a8a"];
 
 const HAZARD_BADGE = { asbestos: "Asbestos group", crystalline_silica: "Crystalline silica" } as const;
 

@@ -1,6 +1,7 @@
 import { join } from "node:path";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { SILICA_CAUTION } from "@/components/cautions/caution-texts";
 import { baseUrl, isNotBlank, launchBrowser, openDemoProject, signInAs } from "./helpers";
 
 /**
@@ -45,6 +46,12 @@ describe("lab analyst: whole-pattern fit of a marble, refit without a phase, sig
     await main.waitFor();
     await diff.waitFor();
     await page.waitForTimeout(300);
+    await page.screenshot({ path: join(SHOTS, "wp-review-0-top.png") });
+    // Zoomed in, each phase's share of the profile shows as a shaded area; the difference panel follows the zoom.
+    for (let i = 0; i < 6; i++) await page.getByRole("button", { name: "Zoom in" }).click();
+    await page.waitForTimeout(200);
+    await page.locator("[data-testid=diffractogram]").locator("..").screenshot({ path: join(SHOTS, "wp-review-0-zoom.png") });
+    await page.getByRole("button", { name: "Reset" }).click();
     expect(await isNotBlank(await main.screenshot())).toBe(true);
     expect(await isNotBlank(await diff.screenshot())).toBe(true);
     await expect.poll(() => page.getByRole("button", { name: "Calculated (fit)" }).getAttribute("aria-pressed")).toBe("true");
@@ -99,6 +106,36 @@ describe("lab analyst: whole-pattern fit of a marble, refit without a phase, sig
     expect(await page.getByRole("button", { name: /and refit$/ }).count()).toBe(0);
     expect(await page.getByRole("button", { name: /^Accept / }).count()).toBe(0);
     await page.screenshot({ path: join(SHOTS, "wp-review-3-signed.png"), fullPage: true });
+    expect(errors).toEqual([]);
+    await page.close();
+  });
+
+  test("a project lead sees a demo scan's fit read-only; the sample lists the fit's phases as not confirmed", async () => {
+    const page = await browser.newPage({ viewport: { width: 1280, height: 800 } });
+    const errors: string[] = [];
+    page.on("pageerror", (e) => errors.push(String(e)));
+    page.on("console", (m) => m.type() === "error" && errors.push(m.text()));
+    await signInAs(page, "lead");
+    const projectId = await openDemoProject(page);
+    await page.goto(`${baseUrl()}/projects/${projectId}/scans`);
+    // Demo scan awaiting review (invented quartz–muscovite–chlorite–pyrite mixture, db/seed/demo-scans.ts).
+    await page.getByRole("link", { name: "APR-000009.xy" }).click();
+    await page.waitForSelector("[data-testid=fit-panel]");
+    const minerals = await page.locator("[data-testid=fit-phase]").evaluateAll((els) => els.map((e) => e.getAttribute("data-mineral")));
+    expect(minerals).toContain("quartz");
+    // Quartz in the fit is still only a candidate, but its caution shows.
+    expect(await page.textContent("[data-testid=silica-caution]")).toContain(SILICA_CAUTION);
+    expect(await page.getByRole("button", { name: /and refit$/ }).count()).toBe(0);
+    expect(await page.getByRole("button", { name: /^Accept / }).count()).toBe(0);
+    await page.screenshot({ path: join(SHOTS, "wp-review-4-lead.png") });
+
+    await page.click("[data-testid=scan-sample-link]");
+    await page.waitForSelector("[data-testid=unconfirmed-phases]");
+    const unconfirmed = (await page.textContent("[data-testid=unconfirmed-phases]"))!;
+    expect(unconfirmed).toMatch(/In the fit, not confirmed/);
+    for (const m of minerals) expect(unconfirmed).toContain(m!);
+    expect(await page.locator("[data-testid=confirmed-phases]").count()).toBe(0);
+    await page.screenshot({ path: join(SHOTS, "wp-review-5-sample.png"), fullPage: true });
     expect(errors).toEqual([]);
     await page.close();
   });
