@@ -565,8 +565,9 @@ function aloneLines(grid: Float64Array, fit: FitEvaluation, k: number, profile: 
 }
 
 /**
- * Report selected phases whose unit profiles are nearly collinear (weighted cosine ≥ LOOKALIKE_COSINE) as one
- * phase: the member with the larger share, the others as alternatives, fractions and profiles summed. Where all
+ * Report selected phases that a pattern cannot tell apart as one phase: unit profiles nearly collinear (weighted
+ * cosine ≥ LOOKALIKE_COSINE), or members of one series whose lines fall on each other at one d ratio. The member
+ * whose own cell fits best leads, the others become alternatives; fractions and profiles are summed. Where all
  * members belong to a series that a pattern cannot split (biotite, K-feldspar, plagioclase, tremolite–actinolite),
  * the series name is reported.
  */
@@ -578,13 +579,25 @@ function mergeLookalikes(phases: FittedPhase[], fit: FitEvaluation, data: FitDat
   for (let i = 0; i < m; i++)
     for (let j = i + 1; j < m; j++) {
       const cos = G[i * m + j] / Math.sqrt(G[i * m + i] * G[j * m + j]);
-      if (cos >= LOOKALIKE_COSINE) parent[find(j)] = find(i);
+      const a = fit.phases[i];
+      const b = fit.phases[j];
+      const series = seriesOf(a.lines.ref.mineral);
+      const sameSeries = series !== undefined && series === seriesOf(b.lines.ref.mineral);
+      // Same series and lines in the same places at the fitted cells: one phase split in two.
+      const coincide = sameSeries && sharesLines(b.lines, a.lines, a.params.cellScale / b.params.cellScale, 0.003);
+      if (cos >= LOOKALIKE_COSINE || (sameSeries && (series.report === "always" || coincide))) parent[find(j)] = find(i);
     }
   const groups = new Map<number, number[]>();
   for (let i = 0; i < m; i++) groups.set(find(i), [...(groups.get(find(i)) ?? []), i]);
   const out: FittedPhase[] = [];
   for (const members of groups.values()) {
-    members.sort((a, b) => phases[b].evidence.profileShare - phases[a].evidence.profileShare);
+    // The member whose own cell fits best leads (the cell separates isostructural members); then the larger share.
+    members.sort(
+      (a, b) =>
+        Math.abs(phases[a].params.cellScale - 1) - Math.abs(phases[b].params.cellScale - 1) > 0.002 ? 1
+        : Math.abs(phases[b].params.cellScale - 1) - Math.abs(phases[a].params.cellScale - 1) > 0.002 ? -1
+        : phases[b].evidence.profileShare - phases[a].evidence.profileShare,
+    );
     const lead = { ...phases[members[0]] };
     if (members.length > 1) {
       const rest = members.slice(1).map((i) => phases[i]);
@@ -638,9 +651,10 @@ function bestRatio(c: PhaseLines, p: PhaseLines): number {
 
 /**
  * Cheap test before a look-alike fit: do the candidate's strongest lines fall on the phase's lines at one common
- * d ratio (within the ±1.5 % cell freedom)? At least 70 % of the candidate's strongest-line intensity must match.
+ * d ratio (within the ±1.5 % cell freedom, or `ratioLimit`)? At least 70 % of the candidate's strongest-line
+ * intensity must match.
  */
-function sharesLines(c: PhaseLines, p: PhaseLines, pCell: number): boolean {
+function sharesLines(c: PhaseLines, p: PhaseLines, pCell: number, ratioLimit = 0.016): boolean {
   const top = Array.from({ length: c.count }, (_, j) => j)
     .sort((a, b) => c.intensity[b] - c.intensity[a])
     .slice(0, 8);
@@ -649,7 +663,7 @@ function sharesLines(c: PhaseLines, p: PhaseLines, pCell: number): boolean {
   const total = top.reduce((s, j) => s + c.intensity[j], 0);
   if (!(total > 0) || pd.length === 0) return false;
   const ratios: number[] = [];
-  for (const j of top) for (const d of pd) if (Math.abs(d / c.d[j] - 1) <= 0.016) ratios.push(d / c.d[j]);
+  for (const j of top) for (const d of pd) if (Math.abs(d / c.d[j] - 1) <= ratioLimit) ratios.push(d / c.d[j]);
   for (const r of ratios) {
     let hit = 0;
     for (const j of top) if (pd.some((d) => Math.abs(d / (c.d[j] * r) - 1) <= 0.003)) hit += c.intensity[j];
