@@ -105,7 +105,7 @@ const review = { scanId: "", phaseIds: [] as string[] };
 beforeAll(async () => {
   w = await makeWorld();
   await seedReferenceLibrary();
-  const [s] = await getDb().insert(samples).values({ projectId: w.projectId, code: "RM-SCAN-1", sampleType: "chip" }).returning();
+  const [s] = await getDb().insert(samples).values({ projectId: w.projectId, code: "RM-SCAN-1", sampleType: "chip", status: "prepared" }).returning();
   const f = new FormData();
   f.set("sampleId", s.id);
   f.append("file", new Blob([quartzCalciteXy()]), "RM-SCAN-1.xy");
