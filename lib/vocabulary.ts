@@ -57,12 +57,23 @@ export const SUBMISSION_STATUSES = ["draft", "sent", "received", "in_progress", 
 
 export const PRIORITIES = ["routine", "high", "urgent"] as const;
 
+/**
+ * Custody and review events of a physical sample. The sample's status follows them (lib/validation/custody.ts
+ * CUSTODY_EVENT_STATUS); nothing else writes it. "received_directly" is an in-house lab taking a sample without a
+ * submission (who and why are recorded); "processed", "confirmed", "reopened" and "reported" are review events
+ * written by processing, sign-off, reopening a sign-off and the submission report.
+ */
 export const CUSTODY_EVENTS = [
   "collected",
   "dispatched",
   "received",
+  "received_directly",
   "prepared",
   "scanned",
+  "processed",
+  "confirmed",
+  "reopened",
+  "reported",
   "stored",
   "returned",
   "discarded",

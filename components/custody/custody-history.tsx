@@ -5,14 +5,16 @@ import { currentActor } from "@/lib/dal/session";
 import type { CustodyEvent } from "@/lib/validation/custody";
 import type { IntakeCondition } from "@/lib/validation/submission";
 import Link from "next/link";
+import { SampleCustodyActions } from "./sample-custody-actions";
 
 /** Chain of custody of one sample (server component): who held it, when, where, with seal and condition. */
 export async function CustodyHistory({ projectId, sampleId }: { projectId: string; sampleId: string }) {
   const actor = await currentActor();
-  const { events, intakeFlags } = await listSampleCustody(actor, projectId, sampleId);
+  const { sample, events, intakeFlags, actions } = await listSampleCustody(actor, projectId, sampleId);
   return (
     <Card>
       <h2 className="mb-2 font-semibold">Chain of custody</h2>
+      <SampleCustodyActions projectId={projectId} sampleId={sampleId} code={sample.code} collect={actions.collect} receiveDirectly={actions.receiveDirectly} />
       {intakeFlags.length > 0 && (
         <ul className="mb-2 space-y-1 text-sm">
           {intakeFlags.map((f) => (

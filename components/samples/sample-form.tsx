@@ -127,7 +127,9 @@ function toForm(s: SampleRecord | undefined, defaults: Partial<SampleFormValues>
 function toBody(v: SampleFormValues, creating: boolean): Record<string, unknown> {
   const body: Record<string, unknown> = { ...v, typeDetails: normalizeDetails(v.typeDetails, v.sampleType, creating) };
   if (!body.code) delete body.code;
-  if (!creating) delete body.status;
+  // The status is never sent: a new sample is registered as collected (a collection event) unless planned.
+  if (creating && body.status === "planned") body.planned = true;
+  delete body.status;
   for (const k of ["igsn", "lithology", "alteration", "description", "collectorName", "storageLocation"]) if (typeof body[k] === "string" && !(body[k] as string).trim()) body[k] = null;
   if (body.elevationM == null) body.elevationRef = null;
   for (const [k, val] of Object.entries(body)) if (val === undefined) delete body[k];

@@ -22,7 +22,7 @@ interface ActionSample {
 
 interface Props {
   projectId: string;
-  submission: { id: string; code: string; status: string };
+  submission: { id: string; code: string; status: string; /** The viewer recorded the dispatch (may not confirm the receipt). */ viewerSent?: boolean };
   samples: ActionSample[];
   can: { send: boolean; lab: boolean; handOver: boolean };
 }
@@ -397,10 +397,11 @@ export function SubmissionActions({ projectId, submission, samples, can }: Props
   const [flash, setFlash] = useState<string | null>(null);
   const stage = submission.status;
   const showSend = stage === "draft" && can.send;
-  const showIntake = stage === "sent" && can.lab;
+  const showIntake = stage === "sent" && can.lab && !submission.viewerSent;
+  const senderNote = stage === "sent" && can.lab && submission.viewerSent;
   const showSteps = ["received", "in_progress", "reported"].includes(stage) && (can.lab || can.handOver);
   const showResend = stage !== "draft" && can.send;
-  if (!showSend && !showIntake && !showSteps && !showResend && !flash) return null;
+  if (!showSend && !showIntake && !showSteps && !showResend && !senderNote && !flash) return null;
   return (
     <Card className="space-y-3">
       {flash && (
@@ -414,6 +415,11 @@ export function SubmissionActions({ projectId, submission, samples, can }: Props
           <p className="text-sm text-muted">Records a “dispatched” custody event for every bag and e-mails the lab the manifest link.</p>
           <SendForm projectId={projectId} submission={submission} onDone={setFlash} />
         </>
+      )}
+      {senderNote && (
+        <p className="rounded-md border border-line bg-stone px-3 py-2 text-sm" data-testid="sender-cannot-receive">
+          You recorded the dispatch of {submission.code}, so the receipt is recorded by someone at the lab (separation of duties).
+        </p>
       )}
       {showIntake && (
         <>

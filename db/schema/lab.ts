@@ -4,7 +4,7 @@ import { user } from "./auth";
 import { createdAt, id, updatedAt } from "./columns";
 import { samples } from "./field";
 import { projects } from "./projects";
-import { SUBMISSION_STATUSES, PRIORITIES, CUSTODY_EVENTS } from "../../lib/vocabulary";
+import { SUBMISSION_STATUSES, PRIORITIES, CUSTODY_EVENTS, SAMPLE_STATUSES } from "../../lib/vocabulary";
 export { SUBMISSION_STATUSES, PRIORITIES, CUSTODY_EVENTS } from "../../lib/vocabulary";
 
 
@@ -33,6 +33,12 @@ export const submissions = sqliteTable(
     reportedAt: integer("reported_at", { mode: "timestamp_ms" }),
     createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
     sentAt: integer("sent_at", { mode: "timestamp_ms" }),
+    /** Who recorded the dispatch: that person may not record the receipt (separation of duties). */
+    sentBy: text("sent_by").references(() => user.id, { onDelete: "set null" }),
+    /** Last time the submission e-mail went to the lab (dispatch or resend); resends are throttled from it. */
+    lastMailedAt: integer("last_mailed_at", { mode: "timestamp_ms" }),
+    /** How many times the submission e-mail was sent (dispatch counts as the first). */
+    mailCount: integer("mail_count").notNull().default(0),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },
@@ -81,6 +87,13 @@ export const custodyEvents = sqliteTable(
     waybill: text("waybill"),
     /** Who took the sample over (courier, lab reception, store), when the event is a hand-over. */
     handedTo: text("handed_to"),
+    /**
+     * The sample's status once this event was recorded: the status is derived from the events (the latest one's
+     * status_after), samples.status only caches it. Null for events recorded before this column existed.
+     */
+    statusAfter: text("status_after", { enum: SAMPLE_STATUSES }),
+    /** The scan a review event (processed, confirmed, reopened) belongs to. */
+    scanId: text("scan_id"),
     createdAt: createdAt(),
   },
   (t) => [

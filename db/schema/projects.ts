@@ -30,6 +30,11 @@ export const projects = sqliteTable(
     stationSeq: integer("station_seq").notNull().default(0),
     submissionSeq: integer("submission_seq").notNull().default(0),
     labEmail: text("lab_email"),
+    /**
+     * The project's lab is in-house: a lab member may take a sample without a submission by recording an explicit
+     * "received directly" custody event (who and why). Otherwise scans need a recorded intake.
+     */
+    labInHouse: integer("lab_in_house", { mode: "boolean" }).notNull().default(false),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },

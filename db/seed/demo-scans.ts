@@ -10,7 +10,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db";
 import { auditLog, custodyEvents, phaseResults, processingRuns, projects, referencePhases, samples, scans, user } from "@/db/schema";
 import type { SignOffRecord } from "@/lib/dal/scan-review";
-import { drainProcessingQueue, PIPELINE_VERSION, type RunParams, type RunProfile } from "@/lib/jobs";
+import { drainProcessingQueue, PIPELINE_VERSION, writeSampleEvent, type RunParams, type RunProfile } from "@/lib/jobs";
 import { findLibraryPhase, findReferencePattern } from "@/lib/science/minerals";
 import { writeXy } from "@/lib/science/scan";
 import { synthesizeScan, type SyntheticPhase } from "@/lib/science/synthetic";
@@ -135,7 +135,8 @@ export async function seedDemoScans(projectCode = "APR"): Promise<number> {
       if (plan.outcome !== "queued") {
         await tx.insert(processingRuns).values({ id: runId, scanId, paramsJson: { requested: {} } as unknown as Record<string, unknown>, softwareVersion: PIPELINE_VERSION, status: "queued", createdBy: lab.id, createdAt: at });
       }
-      await tx.insert(custodyEvents).values({ sampleId: sample.id, event: "scanned", actorId: lab.id, actorName: lab.name, occurredAt: at.toISOString(), location: "Lab XRD room", note: `XRD scan uploaded: ${plan.code}.xy (synthetic demo)` });
+      const [viaSubmission] = await tx.select({ submissionId: custodyEvents.submissionId }).from(custodyEvents).where(and(eq(custodyEvents.sampleId, sample.id), eq(custodyEvents.event, "received"))).limit(1);
+      await tx.insert(custodyEvents).values({ sampleId: sample.id, submissionId: viaSubmission?.submissionId ?? null, event: "scanned", actorId: lab.id, actorName: lab.name, occurredAt: at.toISOString(), location: "Lab XRD room", note: `XRD scan uploaded: ${plan.code}.xy (synthetic demo)`, statusAfter: STATUS_RANK[sample.status] < STATUS_RANK.scanned ? "scanned" : sample.status });
       if (STATUS_RANK[sample.status] < STATUS_RANK.scanned) {
         await tx.update(samples).set({ status: "scanned", version: sample.version + 1, storageLocation: "Lab store, XRD shelf" }).where(eq(samples.id, sample.id));
       }
@@ -203,8 +204,8 @@ export async function seedDemoScans(projectCode = "APR"): Promise<number> {
     };
     await db.transaction(async (tx) => {
       await tx.update(scans).set({ status: "signed_off", signedOffBy: lab.id, signedOffAt: signedAt, signOffJson: record as unknown as Record<string, unknown> }).where(eq(scans.id, p.scanId));
-      const [s] = await tx.select().from(samples).where(eq(samples.id, p.sampleId));
-      if (STATUS_RANK[s.status] < STATUS_RANK.confirmed) await tx.update(samples).set({ status: "confirmed", version: s.version + 1 }).where(eq(samples.id, s.id));
+      // The sign-off's review event moves the sample to "confirmed" (the status follows the events).
+      await writeSampleEvent(tx, { sampleId: p.sampleId, event: "confirmed", actorId: lab.id, actorName: lab.name, occurredAt: signedAt.toISOString(), scanId: p.scanId, action: "status" });
       await tx.insert(auditLog).values({ projectId: project.id, actorId: lab.id, action: "sign_off", entity: "scan", entityId: p.scanId, afterJson: { status: "signed_off", runId: record.runId, fit: record.fit, confirmed: record.phases }, createdAt: signedAt });
     });
   }

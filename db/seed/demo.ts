@@ -1,10 +1,10 @@
 import { fileURLToPath } from "node:url";
-import { count, eq, sql } from "drizzle-orm";
+import { and, count, eq, inArray, sql } from "drizzle-orm";
 import { getDb } from "@/db";
 import { migrateDatabase } from "@/db/migrate";
-import { custodyEvents, organisations, projectMembers, projects, samples, stations, structures } from "@/db/schema";
+import { custodyEvents, organisations, projectMembers, projects, samples, stations, structures, submissionSamples, submissions } from "@/db/schema";
 import { createUserWithPassword } from "@/lib/users";
-import { seedDemoScans } from "./demo-scans";
+import { DEMO_SCANS, seedDemoScans } from "./demo-scans";
 import { seedReferenceLibrary } from "./reference-library";
 import { ALTERATIONS, DEMO_OTHER_PROJECT, DEMO_PASSWORD_NOTE, DEMO_PROJECT, DEMO_STATIONS, DEMO_USERS, SAMPLE_TYPES_CYCLE, seededRandom } from "./scenario";
 
@@ -95,13 +95,62 @@ export async function seedDemo(): Promise<boolean> {
             createdBy: collector.id,
           })
           .returning();
-        await tx.insert(custodyEvents).values({ sampleId: sample.id, event: "collected", actorId: collector.id, actorName: collector.name, occurredAt: at.toISOString(), location: st.name });
+        await tx.insert(custodyEvents).values({ sampleId: sample.id, event: "collected", actorId: collector.id, actorName: collector.name, occurredAt: at.toISOString(), location: st.name, statusAfter: "collected" });
       }
     }
     await tx.update(projects).set({ sampleSeq: seq, stationSeq: DEMO_STATIONS.length }).where(eq(projects.id, project.id));
   });
+  await seedDemoSubmission(users);
   await seedDemoScans(DEMO_PROJECT.code);
   return true;
+}
+
+/** Samples of the demo batch that reached the lab but have no scan yet (browser tests upload scans for them). */
+export const AT_LAB_UNSCANNED = ["APR-000033", "APR-000037", "APR-000041"];
+
+/**
+ * The batch that brought the demo's scanned samples to the lab (invented): submission APR-SUB-0001, dispatched by the
+ * field geologist on 2026-03-17 and received by the lab analyst on 2026-03-19, with a custody event per sample for
+ * each step — so every scan below rests on a recorded intake.
+ */
+async function seedDemoSubmission(users: Record<string, { id: string; name: string }>) {
+  const db = getDb();
+  const [project] = await db.select({ id: projects.id }).from(projects).where(eq(projects.code, DEMO_PROJECT.code));
+  const list = await db.select({ id: samples.id, code: samples.code, suspectedAsbestos: samples.suspectedAsbestos }).from(samples).where(and(eq(samples.projectId, project.id), inArray(samples.code, [...DEMO_SCANS.map((p) => p.code), ...AT_LAB_UNSCANNED])));
+  const sentAt = new Date(Date.UTC(2026, 2, 17, 15, 30));
+  const receivedAt = new Date(Date.UTC(2026, 2, 19, 9, 10));
+  await db.transaction(async (tx) => {
+    const [sub] = await tx
+      .insert(submissions)
+      .values({
+        projectId: project.id,
+        code: `${DEMO_PROJECT.code}-SUB-0001`,
+        requestedAnalysis: "XRD bulk",
+        priority: "routine",
+        hazards: list.some((s) => s.suspectedAsbestos) ? `Suspected asbestos (flagged at collection): ${list.filter((s) => s.suspectedAsbestos).map((s) => s.code).sort().join(", ")}` : null,
+        labEmail: DEMO_PROJECT.labEmail,
+        status: "in_progress",
+        waybill: "WB-DEMO-0317",
+        labReference: "LAB-26-0042",
+        sentAt,
+        sentBy: users.field.id,
+        lastMailedAt: sentAt,
+        mailCount: 1,
+        receivedAt,
+        createdBy: users.field.id,
+        createdAt: new Date(sentAt.getTime() - 3600_000),
+      })
+      .returning();
+    await tx.insert(submissionSamples).values(list.map((s) => ({ submissionId: sub.id, sampleId: s.id, intakeCondition: "received" })));
+    for (const s of list) {
+      await tx.insert(custodyEvents).values([
+        { sampleId: s.id, submissionId: sub.id, event: "dispatched", actorId: users.field.id, actorName: users.field.name, occurredAt: sentAt.toISOString(), location: "Camp store, rack B", waybill: "WB-DEMO-0317", handedTo: "Courier", statusAfter: "dispatched" },
+        { sampleId: s.id, submissionId: sub.id, event: "received", actorId: users.lab.id, actorName: users.lab.name, occurredAt: receivedAt.toISOString(), location: "Lab reception, shelf R1", condition: "received", statusAfter: "received" },
+      ]);
+      await tx.update(samples).set({ status: "received", storageLocation: "Lab reception, shelf R1", version: 3 }).where(eq(samples.id, s.id));
+    }
+    await tx.update(projects).set({ submissionSeq: 1 }).where(eq(projects.id, project.id));
+  });
 }
 
 export function printDemoAccounts(baseUrl = process.env.BETTER_AUTH_URL || "http://localhost:3000") {

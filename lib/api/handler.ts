@@ -17,7 +17,7 @@ export function errorResponse(err: unknown): NextResponse<ErrorBody> {
   if (err instanceof AppError) {
     return NextResponse.json(
       { error: { code: err.code, message: err.message, ...(err.fields && { fields: err.fields }), ...(err.details && { details: err.details }) } },
-      { status: err.status },
+      { status: err.status, ...(typeof err.details?.retryAfterSeconds === "number" && { headers: { "retry-after": String(err.details.retryAfterSeconds) } }) },
     );
   }
   if (err instanceof z.ZodError) {

@@ -153,7 +153,13 @@ export function parseSampleCsv(text: string, options: CsvImportOptions = {}): Cs
     }
     // The zone was checked above (cached); the schema's own zone check builds an Intl formatter per row,
     // which alone would cost ~0.8 s for 5,000 rows.
-    const { stationCode, collectedTz, ...sampleValues } = values;
+    const { stationCode, collectedTz, status, ...sampleValues } = values;
+    // A status is never imported as such: it follows custody events. An import registers samples as collected (a
+    // collection event each) or, with status "planned", as not yet taken.
+    if (status === "planned") sampleValues.planned = true;
+    else if (status !== undefined && status !== "collected") {
+      rowErrors.push({ line, column: headerOf("status"), field: "status", message: `Status "${status}" cannot be imported: a sample's status follows its custody events (dispatch, lab intake, scans, sign-off), which an import does not carry. Use collected or planned, or clear the cell.` });
+    }
     const check = sampleCreateSchema.safeParse(sampleValues);
     if (!check.success) {
       for (const issue of check.error.issues) {

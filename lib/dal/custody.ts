@@ -1,12 +1,14 @@
 import "server-only";
 import { and, asc, desc, eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db";
-import { custodyEvents, samples, submissionSamples, submissions } from "@/db/schema";
-import { LAB_STEP_EVENTS, custodyBatchSchema, custodyStepSchema, planStatusChange, type CustodyEvent, type StatusPolicy } from "@/lib/validation/custody";
+import { custodyEvents, projects, samples, submissionSamples, submissions } from "@/db/schema";
+import { SAMPLE_STATUS_LABELS } from "@/lib/format";
+import { LAB_STEP_EVENTS, custodyBatchSchema, custodyStepSchema, isAtLab, planStatusChange, sampleEventSchema, type CustodyEvent, type StatusPolicy } from "@/lib/validation/custody";
 import type { SampleStatus } from "@/lib/vocabulary";
 import { authorize, type Actor } from "./actor";
 import { audit, type DbOrTx } from "./audit";
-import { AppError, conflict, invalid, notFound } from "./errors";
+import { AppError, conflict, forbidden, invalid, notFound } from "./errors";
+import { roleAllows, type Permission } from "./permissions";
 import { validateInput } from "./validate";
 
 export type CustodyEventRow = typeof custodyEvents.$inferSelect;
@@ -71,6 +73,7 @@ export async function appendCustodyEvent(tx: DbOrTx, actor: Actor, sample: Custo
       note: w.note ?? null,
       waybill: w.waybill ?? null,
       handedTo: w.handedTo ?? null,
+      statusAfter: plan.next,
     })
     .returning();
   // Where the bag is now: in transit after a dispatch, else the event's place (a discard keeps the last place).
@@ -118,10 +121,17 @@ async function attachToOpenSubmission(tx: DbOrTx, actor: Actor, projectId: strin
 
 /** Custody history of one sample, oldest first, with intake discrepancies recorded on submissions. */
 export async function listSampleCustody(actor: Actor, projectId: string, sampleId: string) {
-  await authorize(actor, projectId, "project.read");
+  const access = await authorize(actor, projectId, "project.read");
   const db = getDb();
   const [sample] = await db.select({ id: samples.id, code: samples.code, status: samples.status }).from(samples).where(and(eq(samples.id, sampleId), eq(samples.projectId, projectId)));
   if (!sample) throw notFound("Sample not found.");
+  const [project] = await db.select({ labInHouse: projects.labInHouse }).from(projects).where(eq(projects.id, projectId));
+  const can = (p: Permission) => actor.isAdmin || roleAllows(access.role, p);
+  /** What the viewer may record on this sample outside a submission. */
+  const actions = {
+    collect: sample.status === "planned" && can("sample.write"),
+    receiveDirectly: !!project?.labInHouse && can("lab.intake") && ["collected", "returned"].includes(sample.status),
+  };
   const [events, intake] = await Promise.all([
     db
       .select({ event: custodyEvents, submissionCode: submissions.code })
@@ -137,12 +147,93 @@ export async function listSampleCustody(actor: Actor, projectId: string, sampleI
   ]);
   return {
     sample,
+    actions,
     events: events.map((e) => ({ ...e.event, submissionCode: e.submissionCode })),
     intakeFlags: intake,
   };
 }
 
 const LAB_STATES = ["received", "in_progress", "reported"] as const;
+
+/** Separation of duties: whoever recorded a submission's dispatch may not confirm its receipt (leads and admins too). */
+export function assertNotSender(actor: Actor, sub: { code: string; sentBy: string | null }): void {
+  if (sub.sentBy && sub.sentBy === actor.userId) {
+    throw forbidden(`You recorded the dispatch of ${sub.code}, so you cannot also confirm its receipt: someone at the lab records the intake.`);
+  }
+}
+
+/**
+ * Whether each sample may get a scan: the lab must hold it (intake recorded through a submission, or an in-house
+ * lab's "received directly"). Returns one message per sample that may not, naming what to do instead.
+ */
+export async function scanReadinessProblems(tx: DbOrTx, projectId: string, list: { id: string; code: string; status: SampleStatus }[]): Promise<Map<string, string>> {
+  const out = new Map<string, string>();
+  const waiting = list.filter((s) => !isAtLab(s.status));
+  if (waiting.length === 0) return out;
+  const [project] = await tx.select({ labInHouse: projects.labInHouse }).from(projects).where(eq(projects.id, projectId));
+  const open = await tx
+    .select({ sampleId: submissionSamples.sampleId, code: submissions.code, status: submissions.status })
+    .from(submissionSamples)
+    .innerJoin(submissions, eq(submissions.id, submissionSamples.submissionId))
+    .where(and(inArray(submissionSamples.sampleId, waiting.map((s) => s.id)), inArray(submissions.status, ["draft", "sent"])));
+  const subOf = new Map(open.map((o) => [o.sampleId, o]));
+  for (const s of waiting) {
+    const sub = subOf.get(s.id);
+    const where = `${s.code} is "${SAMPLE_STATUS_LABELS[s.status]}": the lab has not recorded its intake, so a scan cannot be attached yet.`;
+    const todo = sub
+      ? sub.status === "sent"
+        ? ` Record the intake of submission ${sub.code} first.`
+        : ` It is on draft submission ${sub.code}: dispatch it, then record its intake at the lab.`
+      : project?.labInHouse
+        ? ` Record "received directly" on the sample (who took it and why), or send it on a submission.`
+        : ` Send it to the lab on a submission and record the intake there.`;
+    out.set(s.id, where + todo);
+  }
+  return out;
+}
+
+/**
+ * Records an event on one sample outside a submission: the collection of a planned sample (sample.write), or an
+ * in-house lab taking a sample directly, without a submission (lab.intake; the project must say its lab is
+ * in-house, and the note says why). The status follows the event. Audited.
+ */
+export async function recordSampleEvent(actor: Actor, projectId: string, sampleId: string, raw: unknown) {
+  await authorize(actor, projectId, "custody.write");
+  const input = validateInput(sampleEventSchema, raw);
+  await authorize(actor, projectId, input.event === "collected" ? "sample.write" : "lab.intake");
+  const db = getDb();
+  return db.transaction(async (tx) => {
+    const [s] = await tx.select({ id: samples.id, code: samples.code, status: samples.status, version: samples.version }).from(samples).where(and(eq(samples.id, sampleId), eq(samples.projectId, projectId)));
+    if (!s) throw notFound("Sample not found.");
+    if (input.event === "collected" && s.status !== "planned") throw conflict(`${s.code} is already "${SAMPLE_STATUS_LABELS[s.status]}"; its collection is recorded.`, { status: s.status });
+    if (input.event === "received_directly") {
+      const [p] = await tx.select({ labInHouse: projects.labInHouse }).from(projects).where(eq(projects.id, projectId));
+      if (!p?.labInHouse) throw conflict("This project's lab is not in-house: samples reach the lab on a submission, and the lab records their intake there. A lead can change this in the project settings.");
+      if (isAtLab(s.status)) throw conflict(`${s.code} is already at the lab ("${SAMPLE_STATUS_LABELS[s.status]}").`, { status: s.status });
+      if (s.status === "planned") throw conflict(`${s.code} is only planned: record its collection first.`, { status: s.status });
+      if (s.status === "discarded") throw conflict(`${s.code} was discarded.`, { status: s.status });
+      const [onSub] = await tx
+        .select({ code: submissions.code })
+        .from(submissionSamples)
+        .innerJoin(submissions, eq(submissions.id, submissionSamples.submissionId))
+        .where(and(eq(submissionSamples.sampleId, s.id), inArray(submissions.status, ["sent"])))
+        .limit(1);
+      if (onSub) throw conflict(`${s.code} is on submission ${onSub.code}, sent to the lab: record its intake there.`);
+    }
+    const r = await appendCustodyEvent(tx, actor, s, {
+      projectId,
+      submissionId: null,
+      event: input.event,
+      occurredAt: input.occurredAt ?? new Date().toISOString(),
+      location: input.location,
+      note: input.note,
+      handledBy: input.handledBy,
+      // A sample back from storage or returned starts a new cycle at the lab.
+      statusPolicy: input.event === "received_directly" && (s.status === "stored" || s.status === "returned") ? "reset" : "forward",
+    });
+    return { sampleId: s.id, eventId: r.event.id, from: r.from, to: r.to };
+  });
+}
 
 /**
  * Records one custody step (prepared, scanned, stored, returned, discarded; a late "received" for a bag that was
@@ -160,6 +251,7 @@ export async function recordCustodySteps(actor: Actor, projectId: string, submis
   return db.transaction(async (tx) => {
     const [sub] = await tx.select().from(submissions).where(and(eq(submissions.id, submissionId), eq(submissions.projectId, projectId)));
     if (!sub) throw notFound("Submission not found.");
+    if (input.event === "received") assertNotSender(actor, sub);
     if (input.event !== "transferred" && !(LAB_STATES as readonly string[]).includes(sub.status)) {
       throw conflict(`Submission ${sub.code} is "${sub.status}": record its intake at the lab before lab steps.`, { status: sub.status });
     }

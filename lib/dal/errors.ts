@@ -9,6 +9,7 @@ export type ErrorCode =
   | "validation_failed"
   | "payload_too_large"
   | "unsupported_media_type"
+  | "too_many_requests"
   | "internal";
 
 export const STATUS_OF: Record<ErrorCode, number> = {
@@ -21,6 +22,7 @@ export const STATUS_OF: Record<ErrorCode, number> = {
   payload_too_large: 413,
   unsupported_media_type: 415,
   validation_failed: 422,
+  too_many_requests: 429,
   internal: 500,
 };
 
@@ -45,4 +47,6 @@ export const notFound = (what = "Not found.") => new AppError("not_found", what)
 export const forbidden = (why = "Your role in this project does not allow this.") => new AppError("forbidden", why);
 export const unauthorized = () => new AppError("unauthorized", "Sign in first.");
 export const conflict = (why: string, details?: Record<string, unknown>) => new AppError("conflict", why, undefined, details);
+/** 429 with the wait in details.retryAfterSeconds (the route sets Retry-After from it). */
+export const tooMany = (why: string, retryAfterSeconds: number) => new AppError("too_many_requests", why, undefined, { retryAfterSeconds });
 export const invalid = (message: string, fields?: FieldErrors) => new AppError("validation_failed", message, fields);

@@ -3,6 +3,7 @@ import { and, eq, inArray, isNull, ne, sql } from "drizzle-orm";
 import { getDb } from "@/db";
 import { projects, samples, submissionSamples, submissions, user } from "@/db/schema";
 import { appBaseUrl, sendMail, signOffMail, submissionReportedMail } from "@/lib/mail";
+import { writeSampleEvent } from "@/lib/jobs/sample-status";
 import { STATUS_RANK } from "@/lib/validation/custody";
 import { audit } from "./audit";
 import { projectLeadEmails } from "./submissions";
@@ -86,10 +87,11 @@ export async function notifySignOff({ projectId, scanId, sampleId, signedOffBy }
       const below = Object.entries(STATUS_RANK)
         .filter(([, r]) => r < STATUS_RANK.reported)
         .map(([s]) => s as keyof typeof STATUS_RANK);
-      await tx
-        .update(samples)
-        .set({ status: "reported", version: sql`${samples.version} + 1` })
-        .where(and(inArray(samples.id, ids), inArray(samples.status, below), ne(samples.status, "planned")));
+      // A review event per sample moves it to "reported" (the status follows the events).
+      const moving = await tx.select({ id: samples.id }).from(samples).where(and(inArray(samples.id, ids), inArray(samples.status, below), ne(samples.status, "planned")));
+      for (const m of moving) {
+        await writeSampleEvent(tx, { sampleId: m.id, event: "reported", actorId: null, submissionId: sub.id, note: `All results of submission ${sub.code} signed off` });
+      }
       await audit(tx, null, { projectId, action: "reported", entity: "submission", entityId: sub.id, after: { status: "reported", trigger: { scanId, sampleId } } });
       return true;
     });

@@ -2,7 +2,7 @@ import "server-only";
 import { and, eq, inArray, sql } from "drizzle-orm";
 import { z } from "zod";
 import { getDb } from "@/db";
-import { auditLog, projects, samples, stations } from "@/db/schema";
+import { auditLog, custodyEvents, projects, samples, stations } from "@/db/schema";
 import { SAMPLE_CSV_COLUMNS, type CsvImportError, type CsvImportParse, type CsvImportRow } from "@/lib/csv";
 import { runJob } from "@/lib/workers/pool";
 import { authorize, type Actor } from "./actor";
@@ -159,15 +159,24 @@ export async function commitSampleImport(actor: Actor, projectId: string, raw: u
           .returning({ seq: projects.sampleSeq });
         next = p.seq - needCodes + 1;
       }
-      const values = rows.map((r) => ({
-        ...r.sample,
+      const now = new Date().toISOString();
+      const values = rows.map(({ sample: { planned, ...r }, stationCode }) => ({
+        ...r,
         id: crypto.randomUUID(),
-        code: r.sample.code ?? formatSampleCode(access.projectCode, next++),
+        code: r.code ?? formatSampleCode(access.projectCode, next++),
         projectId,
-        stationId: r.stationCode ? checked.stationIds.get(r.stationCode)! : null,
+        stationId: stationCode ? checked.stationIds.get(stationCode)! : null,
+        // The status follows the events: a collection event per collected sample below.
+        status: planned ? ("planned" as const) : ("collected" as const),
         createdBy: actor.userId,
       }));
       for (const part of chunks(values, INSERT_BATCH)) await tx.insert(samples).values(part);
+      const collected = values.filter((v) => v.status === "collected");
+      for (const part of chunks(collected, INSERT_BATCH)) {
+        await tx.insert(custodyEvents).values(
+          part.map((v) => ({ sampleId: v.id, event: "collected" as const, actorId: actor.userId, actorName: v.collectorName || actor.name, occurredAt: v.collectedAt ?? now, note: "Registered by CSV import", statusAfter: "collected" as const })),
+        );
+      }
       for (const part of chunks(values, INSERT_BATCH)) {
         await tx.insert(auditLog).values(
           part.map((v) => ({ projectId, actorId: actor.userId, action: "import", entity: "sample", entityId: v.id, beforeJson: null, afterJson: v })),

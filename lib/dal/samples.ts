@@ -1,7 +1,7 @@
 import "server-only";
 import { and, asc, count, desc, eq, gte, lt, or, sql, type AnyColumn, type SQL } from "drizzle-orm";
 import { getDb } from "@/db";
-import { projectMembers, projects, samples, stations } from "@/db/schema";
+import { custodyEvents, projectMembers, projects, samples, stations } from "@/db/schema";
 import { sampleCreateSchema, samplePatchSchema, type SampleListQuery } from "@/lib/validation/sample";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
@@ -137,10 +137,24 @@ export async function createSample(actor: Actor, projectId: string, raw: unknown
           .returning({ seq: projects.sampleSeq });
         code = formatSampleCode(access.projectCode, p.seq);
       }
+      const { planned, ...fields } = input;
+      const status = planned ? ("planned" as const) : ("collected" as const);
       const [row] = await tx
         .insert(samples)
-        .values({ ...input, code, projectId, createdBy: actor.userId, collectorId: input.collectorName ? null : actor.userId })
+        .values({ ...fields, code, projectId, status, createdBy: actor.userId, collectorId: input.collectorName ? null : actor.userId })
         .returning();
+      // The status follows the events: a sample registered as taken gets its collection event in the same write.
+      if (!planned) {
+        await tx.insert(custodyEvents).values({
+          sampleId: row.id,
+          event: "collected",
+          actorId: actor.userId,
+          actorName: input.collectorName || actor.name,
+          occurredAt: input.collectedAt ?? new Date().toISOString(),
+          note: "Registered as collected",
+          statusAfter: "collected",
+        });
+      }
       await audit(tx, actor, { projectId, action: "create", entity: "sample", entityId: row.id, after: row });
       return row;
     });

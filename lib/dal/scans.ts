@@ -20,7 +20,7 @@ import {
 } from "@/lib/validation/scan";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
-import { appendCustodyEvent } from "./custody";
+import { appendCustodyEvent, scanReadinessProblems } from "./custody";
 import { AppError, conflict, invalid, notFound } from "./errors";
 import { otherHazardsOf } from "./reference-phases";
 import { validateInput } from "./validate";
@@ -208,6 +208,13 @@ async function storeScans(actor: Actor, projectId: string, items: { read: ReadSc
     }
     const now = new Date();
     const result = await db.transaction(async (tx) => {
+      // Custody first: a scan is attached only to a sample the lab holds (checked again here, on fresh statuses).
+      const fresh = await tx.select({ id: samples.id, code: samples.code, status: samples.status }).from(samples).where(inArray(samples.id, prepared.map((p) => p.sample.id)));
+      const refused = await scanReadinessProblems(tx, projectId, fresh);
+      if (refused.size) {
+        const messages = [...refused.values()];
+        throw new AppError("conflict", messages.length === 1 ? messages[0] : `${messages.length} samples have not been received by the lab; nothing was uploaded.`, { sampleId: messages }, { samples: [...refused.keys()] });
+      }
       const out: { scan: ScanRow; runId: string }[] = [];
       for (const [i, p] of prepared.entries()) {
         const sha256 = stored[i].sha256;
@@ -289,6 +296,8 @@ export async function uploadScan(actor: Actor, projectId: string, raw: unknown, 
   const input = validateInput(scanUploadSchema, raw);
   if (!file) throw invalid("Choose a scan file to upload.", { file: ["Choose a scan file to upload."] });
   const sample = await sampleRef(projectId, input.sampleId);
+  const notReceived = (await scanReadinessProblems(getDb(), projectId, [sample])).get(sample.id);
+  if (notReceived) throw new AppError("conflict", notReceived, { sampleId: [notReceived] }, { sampleId: sample.id, status: sample.status });
   const read = readScanFile(file, input);
   if (isProblem(read)) throw fileProblemError(read);
   const [stored] = await storeScans(actor, projectId, [{ read, sample }]);
@@ -367,6 +376,11 @@ async function checkBulk(projectId: string, raw: Record<string, unknown>, files:
       continue;
     }
     const sample = byId.get(sampleId)!;
+    const notReceived = (await scanReadinessProblems(db, projectId, [sample])).get(sample.id);
+    if (notReceived) {
+      preview.problems.push({ fileName: file.name, field: "sampleId", message: notReceived });
+      continue;
+    }
     preview.matches.push({
       fileName: file.name,
       sampleId,

@@ -1,5 +1,5 @@
 import "server-only";
-import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { getDb } from "@/db";
 import { custodyEvents, projectMembers, projects, samples, stations, submissionSamples, submissions, user } from "@/db/schema";
 import { appBaseUrl, sendMail, submissionDispatchedMail, submissionReceivedMail, type MailContent } from "@/lib/mail";
@@ -14,8 +14,8 @@ import {
 import type { SampleStatus } from "@/lib/vocabulary";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
-import { appendCustodyEvent, assertStatusPlans } from "./custody";
-import { conflict, invalid, notFound } from "./errors";
+import { appendCustodyEvent, assertNotSender, assertStatusPlans } from "./custody";
+import { conflict, invalid, notFound, tooMany } from "./errors";
 import { validateInput } from "./validate";
 
 export type SubmissionRow = typeof submissions.$inferSelect;
@@ -168,6 +168,38 @@ export async function createSubmission(actor: Actor, projectId: string, raw: unk
   });
 }
 
+/** The e-mail to the lab may be sent again at most every RESEND_INTERVAL_MS, and RESEND_MAX times in all. */
+export const RESEND_INTERVAL_MS = 10 * 60_000;
+export const RESEND_MAX = 5;
+
+/**
+ * Claims one resend of the submission e-mail (throttled: one per 10 minutes, 5 in all), atomically, so two clicks
+ * cannot both send. 429 with Retry-After when it is too soon; 429 without a wait once the limit is used up.
+ */
+async function claimResend(actor: Actor, projectId: string, d: SubmissionDetail): Promise<void> {
+  const now = Date.now();
+  const resends = Math.max(0, (d.mailCount ?? 0) - 1);
+  if (resends >= RESEND_MAX) throw tooMany(`The e-mail for ${d.code} was already sent again ${RESEND_MAX} times; contact the lab directly.`, 24 * 3600);
+  const last = d.lastMailedAt?.getTime() ?? 0;
+  const wait = last + RESEND_INTERVAL_MS - now;
+  if (wait > 0) throw tooMany(`The e-mail for ${d.code} was sent ${Math.max(1, Math.round((now - last) / 60_000))} min ago; you can send it again in ${Math.ceil(wait / 60_000)} min.`, Math.ceil(wait / 1000));
+  await getDb().transaction(async (tx) => {
+    const [row] = await tx
+      .update(submissions)
+      .set({ lastMailedAt: new Date(now), mailCount: sql`${submissions.mailCount} + 1` })
+      .where(and(eq(submissions.id, d.id), d.lastMailedAt ? eq(submissions.lastMailedAt, d.lastMailedAt) : isNull(submissions.lastMailedAt)))
+      .returning({ id: submissions.id });
+    if (!row) throw tooMany(`The e-mail for ${d.code} was just sent again by someone else.`, Math.ceil(RESEND_INTERVAL_MS / 1000));
+    await audit(tx, actor, { projectId, action: "resend", entity: "submission", entityId: d.id, after: { to: d.labEmail, resend: resends + 1 } });
+  });
+}
+
+/** Who recorded the dispatch of a submission sent before sent_by existed (its dispatched custody events). */
+async function dispatcherOf(tx: Pick<ReturnType<typeof getDb>, "select">, submissionId: string): Promise<string | null> {
+  const [e] = await tx.select({ actorId: custodyEvents.actorId }).from(custodyEvents).where(and(eq(custodyEvents.submissionId, submissionId), eq(custodyEvents.event, "dispatched"))).limit(1);
+  return e?.actorId ?? null;
+}
+
 async function dispatchMail(actor: Actor, d: SubmissionDetail): Promise<MailOutcome> {
   const content = submissionDispatchedMail({
     baseUrl: appBaseUrl(),
@@ -191,8 +223,9 @@ export async function sendSubmission(actor: Actor, projectId: string, submission
   if (body.resendEmail === true && Object.keys(body).length === 1) {
     const d = await getSubmissionOrThrow(actor, projectId, submissionId);
     if (d.status === "draft") throw conflict(`Submission ${d.code} has not been sent yet.`);
+    await claimResend(actor, projectId, d);
     const mail = await dispatchMail(actor, d);
-    return { submission: d, mail };
+    return { submission: await getSubmissionOrThrow(actor, projectId, submissionId), mail };
   }
   const input = validateInput(submissionSendSchema, raw);
   const occurredAt = input.occurredAt ?? new Date().toISOString();
@@ -225,7 +258,7 @@ export async function sendSubmission(actor: Actor, projectId: string, submission
     }
     const [updated] = await tx
       .update(submissions)
-      .set({ status: "sent", waybill: input.waybill, sentAt: new Date(occurredAt) })
+      .set({ status: "sent", waybill: input.waybill, sentAt: new Date(occurredAt), sentBy: actor.userId, lastMailedAt: new Date(), mailCount: 1 })
       .where(and(eq(submissions.id, submissionId), eq(submissions.status, "draft")))
       .returning();
     if (!updated) throw conflict(`Submission ${sub.code} was sent by someone else just now.`);
@@ -249,6 +282,7 @@ export async function receiveSubmission(actor: Actor, projectId: string, submiss
   await db.transaction(async (tx) => {
     const [sub] = await tx.select().from(submissions).where(and(eq(submissions.id, submissionId), eq(submissions.projectId, projectId)));
     if (!sub) throw notFound("Submission not found.");
+    assertNotSender(actor, { code: sub.code, sentBy: sub.sentBy ?? (await dispatcherOf(tx, submissionId)) });
     if (sub.status === "draft") throw conflict(`Submission ${sub.code} has not been sent yet.`, { status: sub.status });
     if (sub.status !== "sent") throw conflict(`Submission ${sub.code} was already received${sub.receivedAt ? ` on ${sub.receivedAt.toISOString().slice(0, 10)}` : ""}.`, { status: sub.status });
     const listed = await tx

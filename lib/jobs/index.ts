@@ -28,4 +28,4 @@ export {
 } from "./process-run";
 export { expandSparse, fitOptionsOf, fitProcessed, phaseRowsOf, runProfileOf, unexplainedOf, quantificationLabel, type ComputedPhaseRow, type SearchRow } from "./analyse-scan";
 export { loadReferenceLibrary, invalidateReferenceLibrary, patternFromRow, type StoredLine } from "./reference-library";
-export { advanceSampleStatus, type LabStatus } from "./sample-status";
+export { advanceSampleStatus, writeSampleEvent, SYSTEM_ACTOR_NAME, type LabStatus, type SampleEventWrite } from "./sample-status";

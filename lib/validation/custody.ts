@@ -29,8 +29,14 @@ export const CUSTODY_EVENT_STATUS: Record<CustodyEvent, SampleStatus | null> = {
   collected: "collected",
   dispatched: "dispatched",
   received: "received",
+  received_directly: "received",
   prepared: "prepared",
   scanned: "scanned",
+  processed: "processed",
+  confirmed: "confirmed",
+  // Reopening a sign-off takes the sample back to "candidates ready" on purpose (written with the "reset" policy).
+  reopened: "processed",
+  reported: "reported",
   stored: "stored",
   returned: "returned",
   discarded: "discarded",
@@ -102,5 +108,40 @@ export const custodyBatchSchema = z
   .superRefine(stepRules);
 
 export type CustodyStepInput = z.infer<typeof custodyStepSchema>;
+
+/**
+ * Statuses of a sample the lab holds: intake recorded (through a submission, or "received directly" by an in-house
+ * lab) and not yet returned or discarded. Only such a sample can get a scan.
+ */
+export const AT_LAB_STATUSES = ["received", "prepared", "scanned", "processed", "confirmed", "reported", "stored"] as const satisfies readonly SampleStatus[];
+export const isAtLab = (s: SampleStatus) => (AT_LAB_STATUSES as readonly string[]).includes(s);
+
+/** Events recorded on one sample outside a submission: its collection (a planned sample), or an in-house lab's direct receipt. */
+export const SAMPLE_EVENTS = ["collected", "received_directly"] as const satisfies readonly CustodyEvent[];
+
+export const sampleEventSchema = z
+  .object({
+    event: z.enum(SAMPLE_EVENTS, { error: `Event must be one of: ${SAMPLE_EVENTS.join(", ")}.` }),
+    occurredAt: pastInstant.optional(),
+    location: optionalText(200),
+    note: optionalText(2000),
+    /** Who physically handled the sample, when not the person recording. */
+    handledBy: optionalText(120),
+  })
+  .strict()
+  .superRefine((v, ctx) => {
+    if (v.event === "received_directly" && !v.note) {
+      ctx.addIssue({ code: "custom", path: ["note"], message: "Say why the sample is taken without a submission (e.g. brought to the in-house lab by hand)." });
+    }
+  });
+
+/**
+ * The status that a list of events leaves, in the order they were recorded: each event stores the status it left
+ * (status_after); a sample without events is "planned". This is the definition of a sample's status.
+ */
+export function statusFromEvents(events: readonly { statusAfter: SampleStatus | null }[]): SampleStatus {
+  for (let i = events.length - 1; i >= 0; i--) if (events[i].statusAfter) return events[i].statusAfter!;
+  return "planned";
+}
 
 export { SAMPLE_STATUSES };

@@ -7,6 +7,10 @@ export const SAMPLE_CODE_RE = /^[A-Z0-9][A-Z0-9-]{1,30}$/;
 /** IGSN: a DOI-style "10.xxxx/SUFFIX" (optionally with igsn: or the doi.org prefix) or a legacy 9-character code. */
 export const IGSN_RE = /^(?:(?:igsn:|https:\/\/doi\.org\/)?10\.\d{4,9}\/[A-Z0-9._\-/]+|[A-Z0-9]{5,12})$/i;
 
+/** What a client that sends `status` is told. */
+export const STATUS_NOT_WRITABLE =
+  "A sample's status cannot be set directly: it follows the custody and review events (collection, dispatch, lab intake, preparation, scan, review, sign-off). Record the event instead.";
+
 const sampleFields = {
   code: z.string().trim().toUpperCase().regex(SAMPLE_CODE_RE, "Use capital letters, digits and hyphens, e.g. APR-000123."),
   igsn: z.string().trim().regex(IGSN_RE, "Not an IGSN: use 10.prefix/SUFFIX (or igsn:10.prefix/SUFFIX).").nullable().optional(),
@@ -29,7 +33,8 @@ const sampleFields = {
   /** Fields of the sample type (DOMAIN.md §2.2); `kind` must equal sampleType. */
   typeDetails: sampleDetailsSchema.nullable().optional(),
   storageLocation: optionalText(200),
-  status: z.enum(SAMPLE_STATUSES).optional(),
+  /** Never writable: the status follows custody and review events. Present only to answer with a clear message. */
+  status: z.undefined({ error: STATUS_NOT_WRITABLE }).optional(),
   suspectedAsbestos: z.boolean().optional(),
   weightKg: z.number().positive("Weight must be positive.").max(1000).nullable().optional(),
 };
@@ -39,9 +44,12 @@ const coordMessage = { message: "Give both latitude and longitude, or neither.",
 const detailsMatchType = (v: { sampleType?: string; typeDetails?: { kind: string } | null }) => !v.typeDetails || !v.sampleType || v.typeDetails.kind === v.sampleType;
 const detailsMessage = { message: "These details belong to another sample type; change the type or clear them.", path: ["typeDetails"] };
 
-/** Create: the code is optional (the project sequence issues one). */
+/**
+ * Create: the code is optional (the project sequence issues one). A sample is registered as collected (a
+ * "collected" custody event is written) unless `planned` says it is not taken yet.
+ */
 export const sampleCreateSchema = z
-  .object({ ...sampleFields, code: sampleFields.code.optional() })
+  .object({ ...sampleFields, code: sampleFields.code.optional(), planned: z.boolean({ error: "planned is true or false." }).optional() })
   .strict()
   .refine(bothOrNeither, coordMessage)
   .refine(detailsMatchType, detailsMessage);

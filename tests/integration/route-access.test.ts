@@ -37,6 +37,7 @@ const ACCESS: Record<string, Access> = {
   "PATCH /api/projects/[projectId]/photos/[photoId]": "sample.write",
   "DELETE /api/projects/[projectId]/photos/[photoId]": "sample.write",
   "GET /api/projects/[projectId]/samples/[sampleId]/custody": "project.read",
+  "POST /api/projects/[projectId]/samples/[sampleId]/custody": "custody.write",
   "GET /api/projects/[projectId]/samples/[sampleId]/photos": "project.read",
   "POST /api/projects/[projectId]/samples/[sampleId]/photos": "sample.write",
   "GET /api/projects/[projectId]/samples/[sampleId]": "project.read",

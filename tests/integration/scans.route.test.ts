@@ -354,7 +354,7 @@ describe("bulk upload: files matched to samples by name", () => {
 
 describe("processing queue", () => {
   test("a run left 'running' by a process that died is picked up again after a restart", async () => {
-    const [s] = await getDb().insert(samples).values({ projectId: w.projectId, code: `${code}-000040`, sampleType: "chip" }).returning();
+    const [s] = await getDb().insert(samples).values({ projectId: w.projectId, code: `${code}-000040`, sampleType: "chip", status: "received" }).returning();
     const r = await upload(w.cookies.lab_analyst, s.id, "crash.xy", quartzCalciteXy({ seed: 40 }));
     expect(r.status).toBe(201);
     // Simulate: the worker claimed the run, then the server stopped before finishing.
@@ -372,7 +372,7 @@ describe("processing queue", () => {
     const files: { name: string; text: string }[] = [];
     for (let i = 0; i < 6; i++) {
       const c = `${code}-00005${i}`;
-      await getDb().insert(samples).values({ projectId: w.projectId, code: c, sampleType: "soil" });
+      await getDb().insert(samples).values({ projectId: w.projectId, code: c, sampleType: "soil", status: "received" });
       files.push({ name: `${c}.xy`, text: quartzCalciteXy({ seed: 50 + i }) });
     }
     const f = new FormData();

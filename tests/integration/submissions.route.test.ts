@@ -137,10 +137,21 @@ describe("submission → sent → received → prepared → scanned", () => {
     expect(again.status).toBe(409);
     expect(await counts()).toEqual(before);
     const seen = mail.messages.length;
+    // Resending is throttled (issue 11 §2): right after the dispatch it is 429 with Retry-After, and nothing is sent.
+    const tooSoon = await call(sendRoute, { method: "POST", params: { projectId: w.projectId, submissionId: subId }, cookie: w.cookies.lead, body: { resendEmail: true } });
+    expect(tooSoon.status).toBe(429);
+    expect(Number(tooSoon.headers.get("retry-after"))).toBeGreaterThan(500);
+    expect(tooSoon.json.error.message).toMatch(/send it again in \d+ min/);
+    expect(mail.messages.length).toBe(seen);
+    // Eleven minutes later (the clock is moved by rewriting the last mailing time) one resend goes out.
+    await getDb().update(submissions).set({ lastMailedAt: new Date(Date.now() - 11 * 60_000) }).where(eq(submissions.id, subId));
     const resend = await call(sendRoute, { method: "POST", params: { projectId: w.projectId, submissionId: subId }, cookie: w.cookies.lead, body: { resendEmail: true } });
     expect(resend.status).toBe(200);
     expect(mail.messages.length).toBe(seen + 1);
     expect(await counts()).toEqual(before);
+    // A second click at once is throttled again.
+    expect((await call(sendRoute, { method: "POST", params: { projectId: w.projectId, submissionId: subId }, cookie: w.cookies.lead, body: { resendEmail: true } })).status).toBe(429);
+    expect(mail.messages.length).toBe(seen + 1);
   });
 
   test("a field geologist cannot record the lab's intake (the sender does not confirm its own receipt)", async () => {

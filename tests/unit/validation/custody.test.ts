@@ -1,5 +1,5 @@
 import { describe, expect, test } from "vitest";
-import { CUSTODY_EVENT_STATUS, STATUS_RANK, custodyStepSchema, planStatusChange } from "@/lib/validation/custody";
+import { CUSTODY_EVENT_STATUS, STATUS_RANK, custodyStepSchema, planStatusChange, statusFromEvents } from "@/lib/validation/custody";
 import { SAMPLE_STATUSES, type SampleStatus } from "@/lib/vocabulary";
 
 // The order is DOMAIN.md §1 "Suggested sample lifecycle states": planned → collected → dispatched → received →
@@ -66,5 +66,22 @@ describe("custodyStepSchema", () => {
   });
   test("defaults to the forward policy", () => {
     expect(custodyStepSchema.parse({ event: "prepared" }).statusPolicy).toBe("forward");
+  });
+});
+
+describe("review events and the derived status (issue 11 §2)", () => {
+  test("an in-house lab's direct receipt puts the sample at the lab like an intake; review events follow the lifecycle", () => {
+    expect(planStatusChange("collected", "received_directly")).toEqual({ ok: true, next: "received", change: "advance" });
+    expect(planStatusChange("scanned", "processed")).toEqual({ ok: true, next: "processed", change: "advance" });
+    expect(planStatusChange("processed", "confirmed")).toEqual({ ok: true, next: "confirmed", change: "advance" });
+    expect(planStatusChange("confirmed", "reported")).toEqual({ ok: true, next: "reported", change: "advance" });
+  });
+  test("reopening a sign-off moves the status back only as a deliberate reset", () => {
+    expect(planStatusChange("confirmed", "reopened").ok).toBe(false);
+    expect(planStatusChange("confirmed", "reopened", "reset")).toEqual({ ok: true, next: "processed", change: "regress" });
+  });
+  test("the status is the one the latest event left; no events means planned", () => {
+    expect(statusFromEvents([])).toBe("planned");
+    expect(statusFromEvents([{ statusAfter: "collected" }, { statusAfter: "dispatched" }, { statusAfter: null }])).toBe("dispatched");
   });
 });

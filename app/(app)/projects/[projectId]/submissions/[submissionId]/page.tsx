@@ -91,7 +91,7 @@ export default async function SubmissionPage({ params }: { params: Promise<{ pro
 
       <SubmissionActions
         projectId={projectId}
-        submission={{ id: d.id, code: d.code, status: d.status }}
+        submission={{ id: d.id, code: d.code, status: d.status, viewerSent: d.sentBy === actor.userId }}
         samples={d.samples.map((s) => ({ id: s.id, code: s.code, status: s.status, intakeCondition: s.intakeCondition, suspectedAsbestos: s.suspectedAsbestos }))}
         can={{ send: can("submission.write"), lab: can("lab.intake"), handOver: can("custody.write") }}
       />
