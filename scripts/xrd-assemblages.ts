@@ -6,7 +6,7 @@
  * this measures the method (selection, refinement, quantification) without structure mismatch; the separate
  * development set measures it against structures computed elsewhere.
  *
- *   npm run --silent xrd:assemblages -- [--count 40] [--seed 1] [--verbose]
+ *   npm run --silent xrd:assemblages -- [--count 40] [--seed 1] [--verbose] [--only N]
  *
  * Prints one line per scan with --verbose, then the summary line in the development set's form.
  */
@@ -34,13 +34,13 @@ const ROCKS: Record<string, string[]> = {
 };
 const PLATY = new Set(["muscovite", "phlogopite", "annite", "kaolinite", "clinochlore", "illite", "montmorillonite", "gypsum", "calcite", "actinolite"]);
 
-function args(): { count: number; seed: number; verbose: boolean } {
+function args(): { count: number; seed: number; verbose: boolean; only: number } {
   const a = process.argv.slice(2);
   const get = (k: string, d: number) => {
     const i = a.indexOf(k);
     return i >= 0 ? Number(a[i + 1]) : d;
   };
-  return { count: get("--count", 40), seed: get("--seed", 1), verbose: a.includes("--verbose") };
+  return { count: get("--count", 40), seed: get("--seed", 1), verbose: a.includes("--verbose"), only: get("--only", -1) };
 }
 
 /** True when a reported name stands for the true mineral (same name, or the series the true mineral belongs to). */
@@ -50,7 +50,7 @@ function matches(reported: string, truth: string): boolean {
 }
 
 function main(): void {
-  const { count, seed, verbose } = args();
+  const { count, seed, verbose, only } = args();
   const random = createRandom(seed);
   const pick = <T>(list: readonly T[]): T => list[Math.floor(random() * list.length)];
   let mixOk = 0;
@@ -96,11 +96,18 @@ function main(): void {
       ...(amorphousOnly || random() < 0.15 ? { amorphousHump: { center: 20 + 8 * random(), fwhm: 4 + 3 * random(), height: 300 + 700 * random() } } : {}),
       seed: seed * 1000 + s,
     });
+    if (only >= 0 && s !== only) continue;
     const t = performance.now();
     const processed = processScan(scan, { anode });
     const result = identifyWholePattern(processed, REFERENCE_LIBRARY);
     times.push(performance.now() - t);
     const found = result.phases.map((p) => ({ name: p.mineral, wt: p.wtPercent }));
+    if (process.env.XRD_EVIDENCE)
+      for (const p of result.phases)
+        console.log(`evidence ${names.some((m) => matches(p.mineral, m)) ? "true" : "false"} ${p.mineral} wt=${p.wtPercent} dbic=${p.evidence.deltaBic.toFixed(0)} own=${p.evidence.aloneLines.length} share=${p.evidence.profileShare.toFixed(3)}`);
+    if (only >= 0)
+      for (const p of result.phases)
+        console.log(`  ${p.mineral}: width ×${p.params.widthFactor.toFixed(2)}, cell ${p.params.cellScale.toFixed(4)}, ${p.evidence.aloneLines.length} own lines, share ${p.evidence.profileShare.toFixed(3)}, ΔBIC ${p.evidence.deltaBic.toFixed(0)}`);
     if (amorphousOnly) {
       amorphousN++;
       amorphousOk += found.length === 0 ? 1 : 0;
@@ -111,14 +118,15 @@ function main(): void {
     const major = names.filter((_, i) => weights[i] >= 0.1);
     const ok = major.every((m) => found.some((f) => matches(f.name, m)));
     mixOk += ok ? 1 : 0;
-    for (const f of found) if (!names.some((m) => matches(f.name, m))) phantoms++;
+    const extra = found.filter((f) => !names.some((m) => matches(f.name, m)));
+    phantoms += extra.length;
     names.forEach((m, i) => {
       const f = found.find((x) => matches(x.name, m));
       if (f && typeof f.wt === "number") errors.push(Math.abs(f.wt - 100 * weights[i]));
     });
     if (verbose)
       console.log(
-        `#${s} ${anode}${ka2 ? "" : " Kα1-only"} ${ok ? "ok  " : "MISS"} truth=${names.map((m, i) => `${m} ${(100 * weights[i]).toFixed(0)}`).join(", ")} found=${found.map((f) => `${f.name} ${f.wt}`).join(", ")}`,
+        `#${s} ${anode}${ka2 ? "" : " Kα1-only"} ${ok ? "ok  " : "MISS"} truth=${names.map((m, i) => `${m} ${(100 * weights[i]).toFixed(0)}`).join(", ")} found=${found.map((f) => `${f.name} ${f.wt}`).join(", ")}${extra.length ? ` PHANTOM ${extra.map((f) => f.name).join(", ")}` : ""}`,
       );
   }
   times.sort((a, b) => a - b);

@@ -78,7 +78,7 @@ export interface RefineOptions {
 /** Bounds of the refined quantities (common practice for a qualitative/semi-quantitative fit). */
 const ZERO_LIMIT = 0.5;
 const DISP_LIMIT = 0.5;
-const WIDTH_LIMITS: [number, number] = [0.5, 8];
+const WIDTH_LIMITS: [number, number] = [0.5, 4];
 const MARCH_LIMITS: [number, number] = [0.3, 1.3];
 
 /** Evaluate the fit: render every phase, then solve the non-negative scales and background correction. */
@@ -170,7 +170,9 @@ function parameters(phases: FitPhase[], opts: Required<RefineOptions>): Param[] 
       get: (p) => Math.log(p[k].params.widthFactor),
       set: (p, _, v) => (p[k].params.widthFactor = Math.exp(v)),
       lo: Math.log(WIDTH_LIMITS[0]),
-      hi: Math.log(WIDTH_LIMITS[1]),
+      // A crystalline phase may broaden to a few times the instrument width (size, strain), more only where the
+      // library says it never gives sharp lines (clays): otherwise a phase could be stretched over an amorphous hump.
+      hi: Math.log(Math.max(WIDTH_LIMITS[1], 2 * (ph.lines.ref.broadening ?? 1))),
       jac: (ev, o) => sumScaled(ev, (r) => r.dLnWidth, o, k),
     });
     if (ph.lines.cosAlpha !== null && ph.params.marchR !== null)

@@ -17,6 +17,8 @@ export interface MineralSeries {
   name: string;
   members: readonly string[];
   report: "always" | "series" | "member";
+  /** Two members selected together are always one reported phase (polytypes that a rock sample rarely resolves). */
+  mergeAlways?: boolean;
 }
 
 export const MINERAL_SERIES: readonly MineralSeries[] = [
@@ -26,7 +28,7 @@ export const MINERAL_SERIES: readonly MineralSeries[] = [
   { name: "tremolite-actinolite", members: ["tremolite", "actinolite"], report: "series" },
   { name: "white mica", members: ["muscovite", "illite", "phengite"], report: "member" },
   { name: "chlorite", members: ["clinochlore", "chamosite"], report: "member" },
-  { name: "kaolin group", members: ["kaolinite", "dickite", "nacrite", "halloysite"], report: "member" },
+  { name: "kaolin group", members: ["kaolinite", "dickite", "nacrite", "halloysite"], report: "member", mergeAlways: true },
   { name: "calcic amphibole", members: ["tremolite", "actinolite", "magnesio-hornblende", "hornblende", "pargasite"], report: "member" },
   { name: "garnet", members: ["almandine", "pyrope", "spessartine", "grossular", "andradite", "uvarovite"], report: "member" },
   { name: "spinel group", members: ["magnetite", "chromite", "spinel", "hercynite", "franklinite"], report: "member" },

@@ -134,7 +134,7 @@ export interface WholePatternOptions {
   maxPhases?: number;
   /** Candidates from the strong-line look-up to try. @default 40 */
   maxCandidates?: number;
-  /** ΔBIC a phase must bring (Kass & Raftery 1995: > 10 is "very strong" evidence). @default 10 */
+  /** ΔBIC a phase must bring (Kass & Raftery 1995: > 10 is "very strong" evidence; stricter here, see identifyWholePattern). @default 30 */
   minDeltaBic?: number;
   /** Internal standard of known weight (Chung 1974): its reference id and wt% of the spiked specimen. */
   internalStandard?: { referenceId: string; wtPercent: number };
