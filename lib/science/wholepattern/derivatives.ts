@@ -57,14 +57,24 @@ function dLnMarch(cosAlpha: number, r: number): number {
 }
 
 /**
- * Render a phase (unit scale) with derivatives into `out` (zeroed first).
+ * Render a phase (unit scale) with derivatives into `out` (zeroed first). The displacement derivative is filled
+ * only when asked for (it is refined only on request).
  */
-export function renderPhaseWithDerivatives(x: Float64Array, lines: PhaseLines, g: GlobalProfile, p: PhaseProfileParams, out: PhaseRender): void {
+export function renderPhaseWithDerivatives(
+  x: Float64Array,
+  lines: PhaseLines,
+  g: GlobalProfile,
+  p: PhaseProfileParams,
+  out: PhaseRender,
+  withDisplacement = false,
+): void {
   const n = x.length;
   forgetSegments(out.value);
   for (const a of [out.value, out.dZero, out.dDisp, out.dEta, out.dCell, out.dLnWidth, out.dLnR]) a?.fill(0);
   let spanLo = n;
   let spanHi = -1;
+  const { value, dZero, dEta, dCell, dLnWidth, dLnR } = out;
+  const dDisp = withDisplacement ? out.dDisp : null;
   const lo = x[0];
   const hi = x[n - 1];
   const useMd = lines.cosAlpha !== null && p.marchR !== null;
@@ -91,33 +101,38 @@ export function renderPhaseWithDerivatives(x: Float64Array, lines: PhaseLines, g
       const dPosCell = ((-2 * Math.tan(theta)) / p.cellScale) * DEG;
       const h2 = h * h;
       const inv2 = 1 / h2;
-      const gLim = GAUSS_FWHM * GAUSS_FWHM * h2;
       const start = lowerBound(x, pos.twoTheta - TAIL_FWHM * h);
       const end = pos.twoTheta + TAIL_FWHM * h;
       if (start < spanLo) spanLo = start;
-      for (let i = start; i < n; i++) {
+      const p0 = pos.twoTheta;
+      const lAmp = (A * CL) / h;
+      const gAmp = (A * CG) / h;
+      const gCut = GAUSS_FWHM * GAUSS_FWHM;
+      let i = start;
+      for (; i < n; i++) {
         const xi = x[i];
         if (xi > end) break;
-        if (i > spanHi) spanHi = i;
-        const u = xi - pos.twoTheta;
+        const u = xi - p0;
         const z = u * u * inv2;
         const q = 1 + 4 * z;
-        const L = CL / (h * q);
-        const G = z < GAUSS_FWHM * GAUSS_FWHM && u * u < gLim ? (CG / h) * Math.exp(-4 * LN2 * z) : 0;
-        const f = eta * L + (1 - eta) * G;
-        // ∂f/∂pos (pos = 2θ₀): ∂G/∂pos = G·8ln2·u/H², ∂L/∂pos = L·8u/(H²q)
-        const dPos = A * (eta * ((L * 8 * u) / (h2 * q)) + (1 - eta) * ((G * 8 * LN2 * u) / h2));
-        // H·∂f/∂H: G(−1 + 8ln2·z), L(−1 + 8z/q)
-        const dLnH = A * (eta * L * (-1 + (8 * z) / q) + (1 - eta) * G * (-1 + 8 * LN2 * z));
-        const v = A * f;
-        out.value[i] += v;
-        out.dZero[i] += dPos;
-        out.dDisp[i] += dPos * dPosDisp;
-        out.dCell[i] += dPos * dPosCell;
-        out.dLnWidth[i] += dLnH;
-        out.dEta[i] += A * (L - G);
-        if (out.dLnR) out.dLnR[i] += v * dlnA;
+        const L = lAmp / q; // A·L(u)
+        const G = z < gCut ? gAmp * Math.exp(-4 * LN2 * z) : 0; // A·G(u)
+        const l = eta * L;
+        const gg = (1 - eta) * G;
+        const v = l + gg;
+        // ∂/∂pos (pos = 2θ₀): ∂G/∂pos = G·8ln2·u/H², ∂L/∂pos = L·8u/(H²q)
+        const dPos = ((l * 8) / q + gg * 8 * LN2) * (u / h2);
+        value[i] += v;
+        dZero[i] += dPos;
+        dCell[i] += dPos * dPosCell;
+        // H·∂/∂H: G(−1 + 8ln2·z), L(−1 + 8z/q)
+        dLnWidth[i] += l * (-1 + (8 * z) / q) + gg * (-1 + 8 * LN2 * z);
+        // ∂/∂η of A(ηL + (1 − η)G) = A(L − G)
+        dEta[i] += L - G;
+        if (dDisp) dDisp[i] += dPos * dPosDisp;
+        if (dLnR) dLnR[i] += v * dlnA;
       }
+      if (i - 1 > spanHi) spanHi = i - 1;
     }
   }
   out.span = [spanLo, spanHi];

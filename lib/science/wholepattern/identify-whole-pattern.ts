@@ -401,13 +401,16 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
   for (let k = 0; k < fit.phases.length; k++) {
     const inFit = new Set(fit.phases.map((p) => p.lines.ref.id));
     const self = fit.phases[k];
-    const others = shortlist.filter((c) => !inFit.has(c.ref.id) && sharesLines(c.lines, self.lines, self.params.cellScale)).slice(0, MAX_LOOKALIKES);
+    // A look-alike must look alike both ways: its strong lines on this phase's, and this phase's on its own.
+    const others = shortlist
+      .filter((c) => !inFit.has(c.ref.id) && sharesLines(c.lines, self.lines, self.params.cellScale) && sharesLines(self.lines, c.lines, 1 / self.params.cellScale))
+      .slice(0, MAX_LOOKALIKES);
     if (others.length === 0) continue;
     const score = (ev: FitEvaluation, j: number) => nEff * Math.log(Math.max(ev.chi2, 1e-300)) + ((ev.phases[j].params.cellScale - 1) / CELL_PRIOR) ** 2;
     const trials = others.map((c) => {
       const cellScale = self.params.cellScale * (self.lines.d[0] && c.lines.count ? bestRatio(c.lines, self.lines) : 1);
       const swapped = fit.phases.map((p, j) => (j === k ? { lines: c.lines, params: { ...self.params, cellScale: Math.min(1.015, Math.max(0.985, cellScale)), marchR: c.lines.cosAlpha ? (self.params.marchR ?? 1) : null } } : p));
-      const ev = refineFit(data, swapped, fit.global, { maxIterations: 12, only: k, frozen: fit });
+      const ev = refineFit(data, swapped, fit.global, { maxIterations: 8, only: k, frozen: fit });
       return { c, ev, s: score(ev, k) };
     });
     const ownScore = score(fit, k);

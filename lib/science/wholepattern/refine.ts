@@ -82,13 +82,20 @@ const WIDTH_LIMITS: [number, number] = [0.5, 4];
 const MARCH_LIMITS: [number, number] = [0.3, 1.3];
 
 /** Evaluate the fit: render every phase, then solve the non-negative scales and background correction. */
-export function evaluateFit(data: FitData, phases: FitPhase[], global: GlobalProfile, reuse?: PhaseRender[], frozen?: { renders: PhaseRender[]; except: number }): FitEvaluation {
+export function evaluateFit(
+  data: FitData,
+  phases: FitPhase[],
+  global: GlobalProfile,
+  reuse?: PhaseRender[],
+  frozen?: { renders: PhaseRender[]; except: number },
+  withDisplacement = false,
+): FitEvaluation {
   const n = data.x.length;
   const renders = phases.map((ph, k) => {
     if (frozen && k !== frozen.except) return frozen.renders[k];
     const r = reuse?.[k] ?? emptyRender(n, ph.lines.cosAlpha !== null);
     if (r.dLnR === null && ph.lines.cosAlpha !== null) return emptyRender(n, true);
-    renderPhaseWithDerivatives(data.x, ph.lines, global, ph.params, r);
+    renderPhaseWithDerivatives(data.x, ph.lines, global, ph.params, r, withDisplacement);
     return r;
   });
   return solveLinear(data, phases, global, renders);
@@ -210,7 +217,7 @@ export function refineFit(data: FitData, start: FitPhase[], global: GlobalProfil
     opts.eta = false;
   }
   const frozen = only !== null ? { renders: options.frozen!.renders, except: only } : undefined;
-  let cur = evaluateFit(data, clonePhases(start), { ...global }, undefined, frozen);
+  let cur = evaluateFit(data, clonePhases(start), { ...global }, undefined, frozen, opts.displacement);
   if (start.length === 0) return { ...cur, iterations: 0 };
   let lambda = 1e-3;
   let it = 0;
@@ -252,7 +259,7 @@ export function refineFit(data: FitData, start: FitPhase[], global: GlobalProfil
         const v = p.get(phases, g) + delta[k];
         p.set(phases, g, Math.min(p.hi, Math.max(p.lo, Number.isFinite(v) ? v : p.get(phases, g))));
       });
-      const trial = evaluateFit(data, phases, g, spare, frozen);
+      const trial = evaluateFit(data, phases, g, spare, frozen, opts.displacement);
       if (trial.chi2 < cur.chi2) {
         // Improvement in units of the reduced χ²: below one unit the change means nothing statistically.
         const gain = (cur.chi2 - trial.chi2) / Math.max(cur.chi2 / Math.max(1, n - P), 1e-300);
