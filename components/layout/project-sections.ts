@@ -1,10 +1,10 @@
+import { roleAllows } from "@/lib/dal/permissions";
 import type { ProjectRole } from "@/lib/vocabulary";
 
 /** The project's tabs, in order. Add a section here when a feature adds a page. */
 export function projectSections(projectId: string, role: ProjectRole): { href: string; label: string }[] {
   const base = `/projects/${projectId}`;
-  void role;
-  return [
+  const items = [
     { href: base, label: "Overview" },
     { href: `${base}/samples`, label: "Samples" },
     { href: `${base}/stations`, label: "Stations" },
@@ -13,6 +13,9 @@ export function projectSections(projectId: string, role: ProjectRole): { href: s
     { href: `${base}/map`, label: "Map" },
     { href: `${base}/phase-map`, label: "Phase map" },
     { href: `${base}/members`, label: "Team" },
-    { href: "/library", label: "Reference library" },
   ];
+  if (roleAllows(role, "audit.read")) items.push({ href: `${base}/audit`, label: "Audit log" });
+  if (roleAllows(role, "project.manage")) items.push({ href: `${base}/settings`, label: "Settings" });
+  items.push({ href: "/library", label: "Reference library" });
+  return items;
 }

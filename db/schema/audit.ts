@@ -3,7 +3,10 @@ import { user } from "./auth";
 import { createdAt, id } from "./columns";
 import { projects } from "./projects";
 
-/** Every change: who, when, what, before and after. Append-only. */
+/**
+ * Every change: who, when, what, before and after. Append-only: the DAL has no update or delete path, and database
+ * triggers (migration 0006) refuse UPDATE and DELETE.
+ */
 export const auditLog = sqliteTable(
   "audit_log",
   {
@@ -17,7 +20,7 @@ export const auditLog = sqliteTable(
     afterJson: text("after_json", { mode: "json" }),
     createdAt: createdAt(),
   },
-  (t) => [index("audit_project_idx").on(t.projectId, t.createdAt), index("audit_entity_idx").on(t.entity, t.entityId)],
+  (t) => [index("audit_project_idx").on(t.projectId, t.createdAt), index("audit_entity_idx").on(t.entity, t.entityId), index("audit_project_actor_idx").on(t.projectId, t.actorId)],
 );
 
 /** Read-only, time-limited link to a filtered register. The token is stored hashed. */

@@ -2,7 +2,7 @@ import { sql } from "drizzle-orm";
 import { check, index, integer, primaryKey, sqliteTable, text, uniqueIndex } from "drizzle-orm/sqlite-core";
 import { user } from "./auth";
 import { createdAt, id, updatedAt } from "./columns";
-import { PROJECT_ROLES } from "../../lib/vocabulary";
+import { ANODES, PROJECT_ROLES } from "../../lib/vocabulary";
 export { PROJECT_ROLES, type ProjectRole } from "../../lib/vocabulary";
 
 
@@ -35,6 +35,24 @@ export const projects = sqliteTable(
      * "received directly" custody event (who and why). Otherwise scans need a recorded intake.
      */
     labInHouse: integer("lab_in_house", { mode: "boolean" }).notNull().default(false),
+    /** Postal address of the lab, printed on the manifest. */
+    labAddress: text("lab_address"),
+    /** IANA zone dates are shown in (pages, exports' local dates), e.g. "Europe/Madrid"; null = UTC. */
+    timeZone: text("time_zone"),
+    /** Anode the scan upload form starts with (Cu, Co, …). */
+    defaultAnode: text("default_anode", { enum: ANODES }),
+    /** Instrument name the scan upload form starts with. */
+    defaultInstrument: text("default_instrument"),
+    /**
+     * How new sample codes are issued (lib/validation/project.ts): tokens {code} (project code), {yyyy} (year) and
+     * {seq:N} (sequence, N digits). Null = "{code}-{seq:6}", e.g. APR-000042.
+     */
+    sampleCodePattern: text("sample_code_pattern"),
+    /** Archived projects are read-only and listed apart. */
+    archivedAt: integer("archived_at", { mode: "timestamp_ms" }),
+    createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+    /** Optimistic concurrency for settings edits. */
+    version: integer("version").notNull().default(1),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },

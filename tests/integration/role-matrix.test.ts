@@ -17,6 +17,8 @@ import { POST as refitScan } from "@/app/api/projects/[projectId]/scans/[scanId]
 import { GET as phaseMap } from "@/app/api/projects/[projectId]/phase-map/route";
 import { GET as exportFormat } from "@/app/api/projects/[projectId]/exports/[format]/route";
 import { GET as listShareLinks, POST as createShareLink } from "@/app/api/projects/[projectId]/share-links/route";
+import { GET as auditLogRoute } from "@/app/api/projects/[projectId]/audit/route";
+import { GET as auditExportRoute } from "@/app/api/projects/[projectId]/audit/export/route";
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db";
 import { seedReferenceLibrary } from "@/db/seed/reference-library";
@@ -49,6 +51,8 @@ const ROUTES: RouteCase[] = [
   ...(["csv", "xlsx", "geojson", "kml"] as const).map(
     (format): RouteCase => ({ name: `GET export ${format}`, handler: exportFormat, method: "GET", permission: "export.read", params: (w) => ({ projectId: w.projectId, format }) }),
   ),
+  { name: "GET audit log", handler: auditLogRoute, method: "GET", permission: "audit.read", params: (w) => ({ projectId: w.projectId }) },
+  { name: "GET audit CSV", handler: auditExportRoute, method: "GET", permission: "audit.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "GET share links", handler: listShareLinks, method: "GET", permission: "share.manage", params: (w) => ({ projectId: w.projectId }) },
   { name: "POST share link", handler: createShareLink, method: "POST", permission: "share.manage", params: (w) => ({ projectId: w.projectId }), body: () => ({ expiresInDays: 7, filter: { lithology: "gossan" } }) },
   { name: "GET stations", handler: listStations, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },

@@ -22,6 +22,8 @@ const ACCESS: Record<string, Access> = {
   "POST /api/invitations/[token]": "public",
   "GET /api/projects": "signed-in",
   "GET /api/projects/[projectId]": "project.read",
+  "GET /api/projects/[projectId]/audit": "audit.read",
+  "GET /api/projects/[projectId]/audit/export": "audit.read",
   "GET /api/projects/[projectId]/exports/[format]": "export.read",
   "PATCH /api/projects/[projectId]/members/[userId]": "project.manage",
   "DELETE /api/projects/[projectId]/members/[userId]": "project.manage",
