@@ -5,12 +5,10 @@ import { phaseResults, processingRuns, referencePhases, scans, user } from "@/db
 import {
   advanceSampleStatus,
   fitOptionsOf,
-  fitProcessed,
   insertRunResults,
   loadReferenceLibrary,
   phaseRowsOf,
   PIPELINE_VERSION,
-  processScanText,
   runProfileOf,
   unexplainedOf,
   type PhaseRowInsert,
@@ -19,6 +17,7 @@ import {
   type SearchRow,
   type StoredMatch,
 } from "@/lib/jobs";
+import { analyseInWorker } from "@/lib/jobs/analyse-in-worker";
 import { getStorage, StorageError } from "@/lib/storage";
 import { manualPhaseSchema, phaseDecisionSchema, refitSchema, scanNoteSchema, signOffSchema } from "@/lib/validation/scan";
 import { authorize, type Actor } from "./actor";
@@ -153,9 +152,8 @@ export async function refitScan(actor: Actor, projectId: string, scanId: string,
     if (err instanceof StorageError && err.code === "not_found") throw notFound("The stored file is missing.");
     throw err;
   }
-  const { processed } = processScanText(text, requested, scan);
   const options = fitOptionsOf(requested, input.phaseIds);
-  const fit = fitProcessed(processed, library, options);
+  const { processed, fit } = await analyseInWorker({ text, requested, scanRow: scan, library: [...library], fitOptions: options, search: false }, scan.originalName);
   const parentProfile = (run?.profile ?? null) as RunProfile | null;
   const profile = runProfileOf(processed, fit, { mixture: parentProfile?.mixture ?? [], broadFeatures: parentProfile?.broadFeatures ?? [] }, "analyst");
   const byId = new Map(library.map((p) => [p.id, p]));

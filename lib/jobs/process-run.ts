@@ -5,16 +5,14 @@ import { getStorage } from "@/lib/storage";
 import type { Peak } from "@/lib/science/types";
 import {
   fitOptionsOf,
-  fitProcessed,
-  identifyProcessed,
   phaseRowsOf,
-  processScanText,
   runProfileOf,
   searchRows,
   unexplainedOf,
   type ComputedPhaseRow,
   type RunParams,
 } from "./analyse-scan";
+import { analyseInWorker } from "./analyse-in-worker";
 import { loadReferenceLibrary } from "./reference-library";
 import { advanceSampleStatus } from "./sample-status";
 
@@ -110,15 +108,13 @@ export async function executeRun(runId: string, onStage: (stage: RunStage) => vo
     const library = await loadReferenceLibrary();
     await yieldToEventLoop();
     onStage("processing");
-    const { processed } = processScanText(text, requested, scan);
-    onStage("identifying");
-    await yieldToEventLoop();
-    const identification = identifyProcessed(processed, requested, library);
-    await yieldToEventLoop();
-    onStage("fitting");
+    // Parse, process, search and fit in a worker thread with a time and memory limit: the server keeps answering.
     const fitOptions = fitOptionsOf(requested);
-    const fit = fitProcessed(processed, library, fitOptions);
-    await yieldToEventLoop();
+    const { processed, identification: searched, fit } = await analyseInWorker(
+      { text, requested, scanRow: scan, library: [...library], fitOptions, search: true },
+      scan.originalName,
+    );
+    const identification = searched!;
     onStage("saving");
     const profile = runProfileOf(processed, fit, identification, "fit");
     const rows = phaseRowsOf(fit, searchRows(identification, library));

@@ -12,6 +12,8 @@ export const TASKS = {
   "mbtiles-inspect": "lib/workers/tasks/mbtiles-inspect.ts",
   /** Parses and validates a sample CSV import. */
   "csv-parse": "lib/workers/tasks/csv-parse.ts",
+  /** Parses and processes a stored scan, ranks candidates and fits the whole pattern (processing runs, refits). */
+  "scan-analyse": "lib/workers/tasks/scan-analyse.ts",
   /** Test-only: burns CPU or memory on purpose (limits and /api/health under load). */
   "hostile": "lib/workers/tasks/hostile.ts",
 } as const;
