@@ -2,16 +2,16 @@
  * Writing register rows as CSV (RFC 4180, comma-separated, CRLF line ends, UTF-8). Pure.
  */
 import Papa from "papaparse";
+import { isoInstantSeconds, SPREADSHEET_FORMULA } from "./formula-guard";
 import { SAMPLE_CSV_COLUMNS, type SampleCsvField } from "./sample-columns";
 
 /** A register row as the export reads it: every CSV field, plus anything else (ignored). */
 export type SampleCsvRecord = { [K in SampleCsvField]?: string | number | boolean | null };
 
 /**
- * Text that a spreadsheet would run as a formula (=, +, -, @, tab, CR first) gets a leading "'"
- * (OWASP "CSV Injection" guidance); the import strips it again. Numbers are written as numbers.
+ * Text that a spreadsheet would evaluate gets a leading "'" (rule and sources in ./formula-guard); the import
+ * strips it again. Numbers are written as numbers; instants in one format (ISO 8601 UTC to the second).
  */
-const FORMULA_START = /^[=+\-@\t\r]/;
 
 /** The header line, CRLF-terminated. */
 export function sampleCsvHeaderLine(): string {
@@ -26,8 +26,9 @@ export function sampleCsvLines(records: readonly SampleCsvRecord[]): string {
       const v = r[c.field];
       if (v === null || v === undefined) return "";
       if (typeof v === "boolean") return v ? "yes" : "no";
+      if (c.kind === "instant" && typeof v === "string") return isoInstantSeconds(v);
       return v;
     }),
   );
-  return Papa.unparse(data, { newline: "\r\n", escapeFormulae: FORMULA_START }) + "\r\n";
+  return Papa.unparse(data, { newline: "\r\n", escapeFormulae: SPREADSHEET_FORMULA }) + "\r\n";
 }

@@ -6,6 +6,7 @@
  */
 import Papa from "papaparse";
 import { sampleCreateSchema, type SampleCreateInput } from "@/lib/validation/sample";
+import { unguardFormula } from "./formula-guard";
 import { guessColumnMapping, mappingProblems, type ColumnMapping } from "./column-mapping";
 import { parseBoolean, parseDecimal, parseEnum, parseInstant, isKnownZone, type CellResult } from "./parse-values";
 import { SAMPLE_CSV_COLUMN_BY_FIELD, type SampleCsvField } from "./sample-columns";
@@ -52,8 +53,6 @@ export interface CsvImportParse {
   errors: CsvImportError[];
 }
 
-/** Text cells that a spreadsheet would run as a formula are written with a leading "'" on export; undo it. */
-const ESCAPED_FORMULA = /^'(?=[=+\-@\t\r])/;
 
 function fileError(message: string): CsvImportError {
   return { line: 1, column: null, field: null, message };
@@ -73,7 +72,7 @@ function readCell(field: SampleCsvField, raw: string, tz: string | null, decimal
     case "zone":
       return isKnownZone(raw) ? { ok: true, value: raw } : { ok: false, message: `"${raw}" is not an IANA time zone such as Europe/Madrid.` };
     default:
-      return { ok: true, value: raw.replace(ESCAPED_FORMULA, "") };
+      return { ok: true, value: unguardFormula(raw) };
   }
 }
 

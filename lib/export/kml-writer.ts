@@ -3,8 +3,14 @@
  * Placemark per sample carrying the same attributes as the GeoJSON export in ExtendedData/SchemaData.
  * Coordinates are "lon,lat" (WGS84); a sample without any position gets a Placemark without geometry
  * (allowed: a Placemark's Geometry is optional). Written page by page. Pure.
+ *
+ * Booleans are written "1"/"0": both are xs:boolean lexical forms (KML 2.2 SimpleField type="bool" is
+ * xs:boolean), and GDAL's KML and LIBKML drivers read a "bool" field as an integer (boolean subtype), so
+ * "true"/"false" came out of ogr2ogr as 0 while "1"/"0" round-trip. collected_at is also the Placemark's
+ * <TimeStamp><when> (KML 2.2 §15.2, xs:dateTime in UTC), so time-aware viewers place it on the time line.
  */
 import { CONFIRMED_VS_CANDIDATE, IDENTIFICATION_CAVEAT } from "./caveats";
+import { isoInstantSeconds } from "@/lib/csv/formula-guard";
 import { registerFeature } from "./geojson-writer";
 import type { ExportRow, RegisterExport } from "./types";
 
@@ -65,13 +71,20 @@ export const KML_FOOTER = `</Folder>
 </kml>
 `;
 
+/** A SimpleData value: booleans 1/0, instants ISO 8601 UTC to the second, the rest as text. */
+function simpleData(key: string, v: string | number | boolean): string {
+  if (typeof v === "boolean") return v ? "1" : "0";
+  if (key === "collected_at" && typeof v === "string") return isoInstantSeconds(v);
+  return String(v);
+}
+
 /** One sample as a Placemark. */
 export function kmlPlacemark(row: ExportRow, url?: string): string {
   const f = registerFeature(row, url);
   const p = f.properties;
   const data = Object.keys(FIELD_TYPES)
     .filter((k) => p[k] !== null && p[k] !== undefined && p[k] !== "")
-    .map((k) => `<SimpleData name="${k}">${xml(typeof p[k] === "boolean" ? (p[k] ? "true" : "false") : String(p[k]))}</SimpleData>`)
+    .map((k) => `<SimpleData name="${k}">${xml(simpleData(k, p[k]!))}</SimpleData>`)
     .join("");
   const desc = [
     p.confirmed_phases ? `Confirmed phases (wt%): ${p.confirmed_phases}` : "No confirmed phases.",
@@ -79,8 +92,10 @@ export function kmlPlacemark(row: ExportRow, url?: string): string {
   ]
     .filter(Boolean)
     .join(" ");
+  const when = typeof p.collected_at === "string" ? isoInstantSeconds(p.collected_at) : null;
+  const time = when ? `<TimeStamp><when>${xml(when)}</when></TimeStamp>` : "";
   const geom = f.geometry ? `<Point><coordinates>${f.geometry.coordinates[0]},${f.geometry.coordinates[1]}</coordinates></Point>` : "";
-  return `<Placemark id="${xml(placemarkId(row.code))}"><name>${xml(row.code)}</name><description>${xml(desc)}</description><styleUrl>#${p.phase_status}</styleUrl><ExtendedData><SchemaData schemaUrl="#lithodex_sample">${data}</SchemaData></ExtendedData>${geom}</Placemark>\n`;
+  return `<Placemark id="${xml(placemarkId(row.code))}"><name>${xml(row.code)}</name><description>${xml(desc)}</description>${time}<styleUrl>#${p.phase_status}</styleUrl><ExtendedData><SchemaData schemaUrl="#lithodex_sample">${data}</SchemaData></ExtendedData>${geom}</Placemark>\n`;
 }
 
 export async function* writeRegisterKml(exp: RegisterExport, sampleUrl: ((id: string) => string) | null): AsyncGenerator<string> {

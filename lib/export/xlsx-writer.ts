@@ -82,9 +82,6 @@ async function sheetBackpressure(ws: unknown): Promise<void> {
   while (backlog() > SHEET_BACKLOG) await new Promise((r) => setTimeout(r, 1));
 }
 
-/** Text a spreadsheet would run as a formula gets a leading "'" (OWASP CSV injection, also applies to XLSX strings). */
-const safeText = (v: string) => (/^[=+\-@\t\r]/.test(v) ? `'${v}` : v);
-
 async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
   const wb = new ExcelJS.stream.xlsx.WorkbookWriter({ stream: out, useStyles: true, useSharedStrings: false });
   wb.creator = "Lithodex";
@@ -124,8 +121,9 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
     for (const r of page) {
       const values: Record<string, string | number | boolean | Date | null> = {};
       for (const c of XLSX_REGISTER_COLUMNS) {
-        const v = c.value(r);
-        values[c.key] = typeof v === "string" ? safeText(v) : v;
+        // Text is stored as text, unchanged: an XLSX string cell (t="inlineStr"/"s") is never evaluated, so no
+        // formula guard (that is a CSV concern, lib/csv/formula-guard) and no visible apostrophe.
+        values[c.key] = c.value(r);
       }
       reg.addRow(values).commit();
       if (++written % 200 === 0) await sheetBackpressure(reg);

@@ -102,7 +102,8 @@ describe("KML export", () => {
       expect(kf.geometry?.coordinates ?? null).toEqual(f.geometry?.coordinates ?? null);
       for (const [key, value] of Object.entries(f.properties)) {
         if (value === null || value === "") expect(kf.properties[key], key).toBeUndefined();
-        else if (typeof value === "boolean") expect(String(text.includes(`<SimpleData name="${key}">${value}</SimpleData>`)), key).toBe("true");
+        // xs:boolean 1/0 (what GDAL's KML drivers read as integers; see lib/export/kml-writer).
+        else if (typeof value === "boolean") expect(String(text.includes(`<SimpleData name="${key}">${value ? 1 : 0}</SimpleData>`)), key).toBe("true");
         else expect(kf.properties[key], `${f.id}.${key}`).toEqual(value);
       }
     }
@@ -134,9 +135,9 @@ describe("XLSX export", () => {
     expect((collected.value as Date).toISOString()).toBe("2026-03-14T10:05:00.000Z");
     expect(rowOf("EXR-002").getCell(col("Suspected asbestos")).type).toBe(ExcelJS.ValueType.Boolean);
     expect(rowOf("EXR-002").getCell(col("Suspected asbestos")).value).toBe(true);
-    // Formula-like text is neutralised (OWASP CSV injection guidance).
+    // Formula-like text is a string cell, stored as entered: XLSX never evaluates a string cell.
     expect(a.getCell(col("Description")).type).toBe(ExcelJS.ValueType.String);
-    expect(a.getCell(col("Description")).value).toBe("'=SUM(A1) looks like a formula");
+    expect(a.getCell(col("Description")).value).toBe("=SUM(A1) looks like a formula");
     expect(a.getCell(col("Confirmed phases (wt%)")).value).toBe("quartz 55; goethite 30.3; pyrite 14.8");
     const ph = wb.getWorksheet("Phases")!;
     const phaseRows = ph.getSheetValues().slice(2).filter(Boolean) as unknown[][];
