@@ -13,7 +13,7 @@ const DEG = 180 / Math.PI;
 const LN2 = Math.LN2;
 const CG = 2 * Math.sqrt(LN2 / Math.PI);
 const CL = 2 / Math.PI;
-const TAIL_FWHM = 10;
+const TAIL_FWHM = 8;
 const GAUSS_FWHM = 3;
 
 /** Profile and derivatives of one phase, each the length of the grid. */

@@ -29,7 +29,7 @@ import { phaseLines, type PhaseLines } from "./phase-lines";
 import { cagliotiFwhm, linePosition, lowerBound, renderPhase } from "./profile";
 import { hillHoward, internalStandard, type QuantPhase } from "./quantify";
 import { commonSeries, seriesOf } from "./series";
-import { fitData, refineFit, scaleSigmas, type FitData, type FitEvaluation, type FitPhase } from "./refine";
+import { evaluateFit, fitData, refineFit, scaleSigmas, type FitData, type FitEvaluation, type FitPhase } from "./refine";
 import type { EvidenceLine, FittedPhase, GlobalProfile, PhaseProfileParams, RejectedCandidate, UnexplainedPeak, WholePatternOptions, WholePatternResult } from "./types";
 
 const RAD = Math.PI / 180;
@@ -49,6 +49,8 @@ const NO_OWN_LINES = -1e9;
 const LOOKALIKE_COSINE = 0.8;
 /** Look-alike phases refitted in place of each selected phase, at most. */
 const MAX_LOOKALIKES = 4;
+/** A look-alike whose unrefined fit is worse by more than this many times the ΔBIC threshold is not refined. */
+const LOOKALIKE_PRESCREEN = 10;
 /** Prior standard deviation of the cell scale (relative), used only to choose between equally good look-alikes. */
 const CELL_PRIOR = 0.005;
 /** Candidates tried again in the second forward pass (those explaining most of the remainder). */
@@ -106,7 +108,7 @@ function resolutionElements(x: Float64Array, g: GlobalProfile): number {
 }
 
 /** Profile tails of the selection columns, in FWHM (short tails keep the columns sparse; the refinement uses full ones). */
-const SELECTION_TAIL = 6;
+const SELECTION_TAIL = 5;
 
 function render(x: Float64Array, c: { lines: PhaseLines; params: PhaseProfileParams }, g: GlobalProfile): Float64Array {
   const out = new Float64Array(x.length);
@@ -335,7 +337,7 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
     chosen = sel.chosen.map((c) => shortlist[c]);
   }
   const toFit = (c: Candidate): FitPhase => ({ lines: c.lines, params: { ...c.params, marchR: c.lines.cosAlpha ? 1 : null } });
-  let fit = refineFit(data, chosen.map(toFit), global, { maxIterations });
+  let fit: FitEvaluation = refineFit(data, chosen.map(toFit), global, { maxIterations });
 
   if (!forced) {
     // 3. Second pass on the remainder with the refined profile, then backward removal.
@@ -407,14 +409,17 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
       .slice(0, MAX_LOOKALIKES);
     if (others.length === 0) continue;
     const score = (ev: FitEvaluation, j: number) => nEff * Math.log(Math.max(ev.chi2, 1e-300)) + ((ev.phases[j].params.cellScale - 1) / CELL_PRIOR) ** 2;
+    const ownScore = score(fit, k);
     const trials = others.map((c) => {
       const cellScale = self.params.cellScale * (self.lines.d[0] && c.lines.count ? bestRatio(c.lines, self.lines) : 1);
       const swapped = fit.phases.map((p, j) => (j === k ? { lines: c.lines, params: { ...self.params, cellScale: Math.min(1.015, Math.max(0.985, cellScale)), marchR: c.lines.cosAlpha ? (self.params.marchR ?? 1) : null } } : p));
+      // One profile first: a look-alike far worse before refinement is not refined.
+      const first = evaluateFit(data, swapped, fit.global, undefined, { renders: fit.renders, except: k });
+      if (score(first, k) - ownScore > LOOKALIKE_PRESCREEN * minDeltaBic) return { c, ev: first, s: score(first, k) };
       const ev = refineFit(data, swapped, fit.global, { maxIterations: 8, only: k, frozen: fit });
       return { c, ev, s: score(ev, k) };
     });
-    const ownScore = score(fit, k);
-    const best = trials.reduce((m, t) => (t.s < m.s ? t : m), { c: null as Candidate | null, ev: fit, s: ownScore });
+    const best = trials.reduce<{ c: Candidate | null; ev: FitEvaluation; s: number }>((m, t) => (t.s < m.s ? t : m), { c: null, ev: fit, s: ownScore });
     const bestScore = best.s;
     const alike = [
       ...(best.c ? [{ referenceId: self.lines.ref.id, mineral: self.lines.ref.mineral, s: ownScore }] : []),

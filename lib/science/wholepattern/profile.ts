@@ -13,8 +13,8 @@ const RAD = Math.PI / 180;
 const LN2x4 = 4 * Math.LN2;
 const CG = 2 * Math.sqrt(Math.LN2 / Math.PI);
 const CL = 2 / Math.PI;
-/** Profile tails are cut at this many FWHM (the Lorentzian area beyond ±10 H is about 3.2 % of η). */
-const TAIL_FWHM = 10;
+/** Profile tails are cut at this many FWHM (the Lorentzian area beyond ±8 H is about 4 % of η). */
+const TAIL_FWHM = 8;
 /** The Gaussian part is negligible (< 1e-11 of its peak) beyond ±3 H. */
 const GAUSS_FWHM = 3;
 

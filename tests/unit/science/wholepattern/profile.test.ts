@@ -28,7 +28,7 @@ describe("calculated phase profile", () => {
     expect(x[at]).toBeCloseTo(26.64, 1);
   });
 
-  test("each line has the area of its relative intensity (area-normalised pseudo-Voigt; tails beyond ±10 FWHM cut ⇒ ≤ 3 % short)", () => {
+  test("each line has the area of its relative intensity (area-normalised pseudo-Voigt; tails beyond ±8 FWHM cut ⇒ ≤ 3 % short)", () => {
     const x = grid(17, 34, 0.002);
     const lines = phaseLines(quartz, g.wavelength, [17, 34]);
     const out = new Float64Array(x.length);
