@@ -5,6 +5,7 @@ import { useState } from "react";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { inputClass } from "@/components/ui/field";
+import { CSV_ENCODINGS, CSV_ENCODING_LABELS, decodeCsvBytes, type CsvEncoding } from "@/lib/csv/decode";
 import { SAMPLE_CSV_COLUMNS, type ColumnMapping, type CsvImportError, type CsvImportRow, type SampleCsvField } from "@/lib/csv";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { SAMPLE_TYPE_LABELS, formatDate } from "@/lib/format";
@@ -45,7 +46,9 @@ function Step({ n, title, active, children }: { n: number; title: string; active
 
 /** Upload → preview and column mapping → errors by line → commit (all rows or none). */
 export function ImportWizard({ projectId }: { projectId: string }) {
-  const [file, setFile] = useState<{ name: string; text: string } | null>(null);
+  const [file, setFile] = useState<{ name: string; text: string; bytes: Uint8Array; encoding: CsvEncoding; warning: string | null } | null>(null);
+  // "detect": BOM, UTF-8 validity, then a charset detector (lib/csv/decode); otherwise the encoding chosen here.
+  const [encodingChoice, setEncodingChoice] = useState<CsvEncoding | "detect">("detect");
   const [decimal, setDecimal] = useState<Decimal>("auto");
   const [timeZone, setTimeZone] = useState("");
   // Zone suggestions are filled on first focus (server and browser may know different zone lists).
@@ -83,9 +86,18 @@ export function ImportWizard({ projectId }: { projectId: string }) {
       setFile(null);
       return setProblem(`${f.name} is ${(f.size / 1e6).toFixed(1)} MB; import at most ${MAX_BYTES / 1e6} MB at a time (split the file).`);
     }
-    const text = await f.text();
-    setFile({ name: f.name, text });
-    await runPreview(text, null, decimal);
+    await readBytes(f.name, new Uint8Array(await f.arrayBuffer()), encodingChoice);
+  }
+
+  async function readBytes(name: string, bytes: Uint8Array, choice: CsvEncoding | "detect") {
+    const decoded = decodeCsvBytes(bytes, choice === "detect" ? null : choice);
+    if (!decoded.ok) {
+      setFile(null);
+      setPreview(null);
+      return setProblem(`${name}: ${decoded.message}`);
+    }
+    setFile({ name, text: decoded.text, bytes, encoding: decoded.encoding, warning: decoded.warning });
+    await runPreview(decoded.text, null, decimal);
   }
 
   async function commit() {
@@ -133,10 +145,29 @@ export function ImportWizard({ projectId }: { projectId: string }) {
   return (
     <div className="space-y-4">
       <Step n={1} title="Choose a CSV file" active>
-        <div className="grid gap-3 md:grid-cols-[2fr_1fr_1fr]">
+        <div className="grid gap-3 md:grid-cols-[2fr_1fr_1fr_1fr]">
           <label className="text-sm">
-            <span className="mb-1 block font-medium">File (UTF-8 CSV, header row first)</span>
+            <span className="mb-1 block font-medium">File (CSV, header row first; UTF-8 preferred)</span>
             <input type="file" accept=".csv,text/csv,text/plain" className={inputClass} onChange={(e) => onFile(e.target.files?.[0])} />
+          </label>
+          <label className="text-sm">
+            <span className="mb-1 block font-medium">Text encoding</span>
+            <select
+              className={inputClass}
+              value={encodingChoice}
+              onChange={(e) => {
+                const c = e.target.value as CsvEncoding | "detect";
+                setEncodingChoice(c);
+                if (file) void readBytes(file.name, file.bytes, c);
+              }}
+            >
+              <option value="detect">Detect (UTF-8 unless the file says otherwise)</option>
+              {CSV_ENCODINGS.map((enc) => (
+                <option key={enc} value={enc}>
+                  {CSV_ENCODING_LABELS[enc]}
+                </option>
+              ))}
+            </select>
           </label>
           <label className="text-sm">
             <span className="mb-1 block font-medium">Decimal separator</span>
@@ -178,6 +209,11 @@ export function ImportWizard({ projectId }: { projectId: string }) {
         </p>
       </Step>
 
+      {file?.warning && (
+        <p role="status" className="rounded-md border border-amber-300 bg-amber-50 px-3 py-2 text-sm text-amber-900">
+          {file.warning}
+        </p>
+      )}
       {problem && (
         <p role="alert" className="rounded-md bg-red-50 px-3 py-2 text-sm text-danger">
           {problem}
@@ -189,7 +225,7 @@ export function ImportWizard({ projectId }: { projectId: string }) {
         <>
           <Step n={2} title="Match columns to register fields" active>
             <p className="mb-2 text-sm text-muted">
-              {file?.name}: {preview.rowCount} rows, separator “{preview.delimiter}”, decimal {preview.decimalComma ? "comma" : "point"}.
+              {file?.name}: {preview.rowCount} rows, {file ? CSV_ENCODING_LABELS[file.encoding] : ""}, separator “{preview.delimiter}”, decimal {preview.decimalComma ? "comma" : "point"}.
             </p>
             <div className="grid gap-2 sm:grid-cols-2 lg:grid-cols-3">
               {preview.headers.map((h, i) => (

@@ -109,6 +109,15 @@ export function parseSampleCsv(text: string, options: CsvImportOptions = {}): Cs
   if (records.length === 0) {
     return { headers: [], mapping: {}, delimiter, decimalComma, rowCount: 0, rows: [], errors: [fileError("The file is empty: it needs a header row and at least one data row.")] };
   }
+  // Text decoded with the wrong encoding carries U+FFFD replacement characters; refuse it rather than store them
+  // (lib/csv/decode reads the file's bytes and names the encoding).
+  const bad = records.find((r) => r.cells.some((c) => c.includes("\uFFFD")));
+  if (bad) {
+    return {
+      headers: [], mapping: {}, delimiter, decimalComma, rowCount: records.length - 1, rows: [],
+      errors: [{ line: bad.line, column: null, field: null, message: `Line ${bad.line} contains "\uFFFD" (a character that could not be read): the file was decoded with the wrong encoding. Choose its encoding (e.g. Windows-1252), or save it as "CSV UTF-8".` }],
+    };
+  }
   const [head, ...data] = records;
   const headers = head.cells.map((h) => h.trim());
   const base = { headers, delimiter, decimalComma, rowCount: data.length };
