@@ -54,6 +54,12 @@ export async function startFakeSmtp({ port = 0, outbox = outboxDir(), onMessage 
               text: mail.text ?? null,
               html: mail.html ?? null,
               headers,
+              ...(mail.attachments.length && {
+                attachments: mail.attachments.map((a) => {
+                  const bytes = typeof a.content === "string" ? Buffer.from(a.content, "base64") : Buffer.from(a.content as ArrayBuffer);
+                  return { filename: a.filename ?? "attachment", contentType: a.mimeType, size: bytes.byteLength, contentBase64: bytes.toString("base64") };
+                }),
+              }),
             },
             outbox,
           );

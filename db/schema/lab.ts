@@ -101,3 +101,31 @@ export const custodyEvents = sqliteTable(
     index("custody_submission_idx").on(t.submissionId),
   ],
 );
+
+/**
+ * A lab link: lets an outside lab without an account open one submission's manifest, record its intake and upload
+ * scans for exactly the samples on it. Signed by its randomness (256 bits) and stored hashed (SHA-256), like share
+ * links; it expires and can be revoked. A resend of the submission e-mail replaces the active link.
+ */
+export const labLinks = sqliteTable(
+  "lab_links",
+  {
+    id: id(),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    submissionId: text("submission_id")
+      .notNull()
+      .references(() => submissions.id, { onDelete: "cascade" }),
+    tokenHash: text("token_hash").notNull().unique(),
+    /** The address the link was e-mailed to. */
+    sentTo: text("sent_to").notNull(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    revokedAt: integer("revoked_at", { mode: "timestamp_ms" }),
+    revokedBy: text("revoked_by").references(() => user.id, { onDelete: "set null" }),
+    lastUsedAt: integer("last_used_at", { mode: "timestamp_ms" }),
+    createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("lab_links_submission_idx").on(t.submissionId)],
+);

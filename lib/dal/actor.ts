@@ -15,6 +15,15 @@ export interface Actor {
 }
 
 /** Reads the better-auth session from request headers; null when not signed in. */
+/**
+ * Whoever a record is written for: a signed-in actor, or someone without an account acting through a token (an
+ * outside lab's link), who has a name but no user id.
+ */
+export interface Recorder {
+  userId: string | null;
+  name: string;
+}
+
 export async function getActor(headers: Headers): Promise<Actor | null> {
   const session = await getAuth().api.getSession({ headers });
   if (!session) return null;

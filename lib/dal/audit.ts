@@ -1,7 +1,7 @@
 import "server-only";
 import type { Db } from "@/db";
 import { auditLog } from "@/db/schema";
-import type { Actor } from "./actor";
+import type { Recorder } from "./actor";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];
 export type DbOrTx = Db | Tx;
@@ -9,7 +9,7 @@ export type DbOrTx = Db | Tx;
 /** Appends one audit entry, inside the caller's transaction. */
 export async function audit(
   tx: DbOrTx,
-  actor: Actor | null,
+  actor: Pick<Recorder, "userId"> | null,
   entry: { projectId: string | null; action: string; entity: string; entityId: string; before?: unknown; after?: unknown },
 ): Promise<void> {
   await tx.insert(auditLog).values({

@@ -5,7 +5,7 @@ import { custodyEvents, projects, samples, submissionSamples, submissions } from
 import { SAMPLE_STATUS_LABELS } from "@/lib/format";
 import { LAB_STEP_EVENTS, custodyBatchSchema, custodyStepSchema, isAtLab, planStatusChange, sampleEventSchema, type CustodyEvent, type StatusPolicy } from "@/lib/validation/custody";
 import type { SampleStatus } from "@/lib/vocabulary";
-import { authorize, type Actor } from "./actor";
+import { authorize, type Actor, type Recorder } from "./actor";
 import { audit, type DbOrTx } from "./audit";
 import { AppError, conflict, forbidden, invalid, notFound } from "./errors";
 import { roleAllows, type Permission } from "./permissions";
@@ -53,7 +53,7 @@ export function assertStatusPlans(list: CustodySample[], event: CustodyEvent, po
  * Appends one custody event inside the caller's transaction and moves the sample's status along the lifecycle
  * (forward only unless the policy says otherwise; see planStatusChange). Other DAL modules (e.g. scans) may call it.
  */
-export async function appendCustodyEvent(tx: DbOrTx, actor: Actor, sample: CustodySample, w: CustodyWrite) {
+export async function appendCustodyEvent(tx: DbOrTx, actor: Recorder, sample: CustodySample, w: CustodyWrite) {
   const plan = planStatusChange(sample.status, w.event, w.statusPolicy);
   if (!plan.ok) throw conflict(`${sample.code}: ${plan.reason}`, { sampleId: sample.id, status: sample.status, event: w.event });
   const submissionId = w.submissionId ?? (await attachToOpenSubmission(tx, actor, w.projectId, sample.id, w.event));
@@ -102,7 +102,7 @@ export async function appendCustodyEvent(tx: DbOrTx, actor: Actor, sample: Custo
  * A lab step recorded without a submission (e.g. a scan upload) belongs to the sample's submission at the lab,
  * if any; its first preparation or scan moves that submission to "in_progress".
  */
-async function attachToOpenSubmission(tx: DbOrTx, actor: Actor, projectId: string, sampleId: string, event: CustodyEvent): Promise<string | null> {
+async function attachToOpenSubmission(tx: DbOrTx, actor: Recorder, projectId: string, sampleId: string, event: CustodyEvent): Promise<string | null> {
   if (!(LAB_STEP_EVENTS as readonly string[]).includes(event)) return null;
   const [open] = await tx
     .select({ id: submissions.id, status: submissions.status })
@@ -156,7 +156,7 @@ export async function listSampleCustody(actor: Actor, projectId: string, sampleI
 const LAB_STATES = ["received", "in_progress", "reported"] as const;
 
 /** Separation of duties: whoever recorded a submission's dispatch may not confirm its receipt (leads and admins too). */
-export function assertNotSender(actor: Actor, sub: { code: string; sentBy: string | null }): void {
+export function assertNotSender(actor: Recorder, sub: { code: string; sentBy: string | null }): void {
   if (sub.sentBy && sub.sentBy === actor.userId) {
     throw forbidden(`You recorded the dispatch of ${sub.code}, so you cannot also confirm its receipt: someone at the lab records the intake.`);
   }

@@ -18,7 +18,7 @@ import {
   scanUploadSchema,
   type ScanSettingsInput,
 } from "@/lib/validation/scan";
-import { authorize, type Actor } from "./actor";
+import { authorize, type Actor, type Recorder } from "./actor";
 import { audit } from "./audit";
 import { appendCustodyEvent, scanReadinessProblems } from "./custody";
 import { AppError, conflict, invalid, notFound } from "./errors";
@@ -192,7 +192,7 @@ interface SampleRef {
 }
 
 /** Stores the files, then the rows in one transaction; removes the stored files again if the transaction fails. */
-async function storeScans(actor: Actor, projectId: string, items: { read: ReadScan; sample: SampleRef }[]) {
+async function storeScans(actor: Recorder, projectId: string, items: { read: ReadScan; sample: SampleRef }[]) {
   const db = getDb();
   const storage = getStorage();
   const prepared = items.map(({ read, sample }) => {
@@ -293,6 +293,14 @@ async function sampleRef(projectId: string, sampleId: string): Promise<SampleRef
  */
 export async function uploadScan(actor: Actor, projectId: string, raw: unknown, file: UploadedFile | null) {
   await authorize(actor, projectId, "scan.write");
+  return uploadScanFor(actor, projectId, raw, file);
+}
+
+/**
+ * The upload itself, for a caller whose access was already checked: a member with scan.write (uploadScan) or an
+ * outside lab through its lab link (lib/dal/lab-links.ts, which first checks the sample is on its manifest).
+ */
+export async function uploadScanFor(actor: Recorder, projectId: string, raw: unknown, file: UploadedFile | null) {
   const input = validateInput(scanUploadSchema, raw);
   if (!file) throw invalid("Choose a scan file to upload.", { file: ["Choose a scan file to upload."] });
   const sample = await sampleRef(projectId, input.sampleId);

@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, desc, eq, inArray, isNull, sql } from "drizzle-orm";
 import { getDb } from "@/db";
 import { custodyEvents, projectMembers, projects, samples, stations, submissionSamples, submissions, user } from "@/db/schema";
-import { appBaseUrl, sendMail, submissionDispatchedMail, submissionReceivedMail, type MailContent } from "@/lib/mail";
+import { appBaseUrl, appLink, labLinkPath, sendMail, submissionDispatchedMail, submissionReceivedMail, type MailAttachment, type MailContent } from "@/lib/mail";
 import {
   formatSubmissionCode,
   submissionCreateSchema,
@@ -10,12 +10,14 @@ import {
   submissionReceiveSchema,
   submissionSendSchema,
   type IntakeCondition,
+  type SubmissionReceiveInput,
 } from "@/lib/validation/submission";
 import type { SampleStatus } from "@/lib/vocabulary";
-import { authorize, type Actor } from "./actor";
+import { authorize, type Actor, type Recorder } from "./actor";
 import { audit } from "./audit";
 import { appendCustodyEvent, assertNotSender, assertStatusPlans } from "./custody";
 import { conflict, invalid, notFound, tooMany } from "./errors";
+import { issueLabLink, labMemberFor, manifestPdfFor } from "./lab-links";
 import { validateInput } from "./validate";
 
 export type SubmissionRow = typeof submissions.$inferSelect;
@@ -32,7 +34,7 @@ export interface MailOutcome {
   error?: string;
 }
 
-async function trySend(to: string[], cc: string[], content: MailContent): Promise<MailOutcome> {
+async function trySend(to: string[], cc: string[], content: MailContent & { attachments?: MailAttachment[] }): Promise<MailOutcome> {
   if (to.length === 0) return { sent: false, to, error: "No recipient." };
   try {
     await sendMail({ to, cc, ...content });
@@ -75,9 +77,19 @@ export async function listSubmissions(actor: Actor, projectId: string, rawQuery:
 /** One submission with its samples (manifest order: by code) and the custody events recorded under it. */
 export async function getSubmissionOrThrow(actor: Actor, projectId: string, submissionId: string) {
   const access = await authorize(actor, projectId, "project.read");
+  return { ...(await loadSubmission(projectId, submissionId)), role: access.role };
+}
+
+/** The submission detail without an access check: only for callers that checked access themselves (a lab link). */
+export async function loadSubmission(projectId: string, submissionId: string) {
   const db = getDb();
   const [row] = await db
-    .select({ submission: submissions, createdByName: user.name, createdByEmail: user.email, project: { id: projects.id, code: projects.code, name: projects.name, labEmail: projects.labEmail } })
+    .select({
+      submission: submissions,
+      createdByName: user.name,
+      createdByEmail: user.email,
+      project: { id: projects.id, code: projects.code, name: projects.name, labEmail: projects.labEmail, labAddress: projects.labAddress, timeZone: projects.timeZone },
+    })
     .from(submissions)
     .innerJoin(projects, eq(projects.id, submissions.projectId))
     .leftJoin(user, eq(user.id, submissions.createdBy))
@@ -104,10 +116,10 @@ export async function getSubmissionOrThrow(actor: Actor, projectId: string, subm
       .orderBy(asc(samples.code)),
     db.select().from(custodyEvents).where(eq(custodyEvents.submissionId, submissionId)).orderBy(asc(custodyEvents.occurredAt), asc(custodyEvents.createdAt)),
   ]);
-  return { ...row.submission, project: row.project, createdByName: row.createdByName, createdByEmail: row.createdByEmail, samples: items, events, role: access.role };
+  return { ...row.submission, project: row.project, createdByName: row.createdByName, createdByEmail: row.createdByEmail, samples: items, events };
 }
 
-export type SubmissionDetail = Awaited<ReturnType<typeof getSubmissionOrThrow>>;
+export type SubmissionDetail = Awaited<ReturnType<typeof loadSubmission>>;
 
 /** Auto-added hazard line for flagged samples. */
 export function asbestosHazardLine(codes: string[]): string | null {
@@ -201,14 +213,21 @@ async function dispatcherOf(tx: Pick<ReturnType<typeof getDb>, "select">, submis
 }
 
 async function dispatchMail(actor: Actor, d: SubmissionDetail): Promise<MailOutcome> {
+  // An outside lab gets a lab link (no account needed); a lab address that belongs to a member with lab.intake does
+  // not: that lab signs in and uses its role.
+  const member = await labMemberFor(d.projectId, d.labEmail);
+  const link = d.labEmail && !member ? await issueLabLink(actor, d.projectId, d.id, d.labEmail) : null;
   const content = submissionDispatchedMail({
     baseUrl: appBaseUrl(),
     project: d.project,
     submission: { ...d, courier: d.events.find((e) => e.event === "dispatched")?.handedTo ?? null },
     samples: d.samples.map((s) => ({ code: s.code, sampleType: s.sampleType, weightKg: s.weightKg, suspectedAsbestos: s.suspectedAsbestos })),
     sender: { name: actor.name, email: actor.email },
+    labLink: link ? { url: appLink(appBaseUrl(), labLinkPath(link.token)), expiresAt: link.expiresAt } : null,
+    manifestAttached: true,
   });
-  return trySend(d.labEmail ? [d.labEmail] : [], [actor.email], content);
+  const pdf = await manifestPdfFor(d);
+  return trySend(d.labEmail ? [d.labEmail] : [], [actor.email], { ...content, attachments: [{ filename: `${d.code}-manifest.pdf`, contentType: "application/pdf", content: pdf }] });
 }
 
 /**
@@ -277,6 +296,24 @@ export async function sendSubmission(actor: Actor, projectId: string, submission
 export async function receiveSubmission(actor: Actor, projectId: string, submissionId: string, raw: unknown) {
   await authorize(actor, projectId, "lab.intake");
   const input = validateInput(submissionReceiveSchema, raw);
+  await recordIntake(actor, projectId, submissionId, input);
+  const d = await getSubmissionOrThrow(actor, projectId, submissionId);
+  const mail = await sendReceipt(projectId, d, actor.name, input);
+  return { submission: d, mail };
+}
+
+/**
+ * The intake itself, for a caller whose access was checked: a member with lab.intake, or an outside lab through its
+ * lab link (which may not add "extra" bags: the link reaches only the manifest's samples). All or nothing.
+ */
+export async function recordIntake(actor: Recorder, projectId: string, submissionId: string, input: SubmissionReceiveInput, opts: { allowExtra?: boolean } = {}): Promise<void> {
+  if (opts.allowExtra === false) {
+    const fields: Record<string, string[]> = {};
+    input.items.forEach((it, i) => {
+      if (it.condition === "extra") fields[`items.${i}.condition`] = ["Bags that are not on the manifest cannot be added through the lab link: describe them in the note, and the project team will add them."];
+    });
+    if (Object.keys(fields).length) throw invalid("The intake lists a bag that is not on the manifest.", fields);
+  }
   const db = getDb();
   const receivedAt = input.receivedAt ?? new Date().toISOString();
   await db.transaction(async (tx) => {
@@ -341,7 +378,10 @@ export async function receiveSubmission(actor: Actor, projectId: string, submiss
     if (!updated) throw conflict(`Submission ${sub.code} was received by someone else just now.`);
     await audit(tx, actor, { projectId, action: "receive", entity: "submission", entityId: submissionId, before: { status: "sent" }, after: { status: "received", labReference: input.labReference ?? null } });
   });
-  const d = await getSubmissionOrThrow(actor, projectId, submissionId);
+}
+
+/** The receipt e-mail to the sender and the leads after an intake (a mail failure does not undo the intake). */
+export async function sendReceipt(projectId: string, d: SubmissionDetail, receivedBy: string, input: SubmissionReceiveInput): Promise<MailOutcome> {
   const counts: Record<IntakeCondition, number> = { received: 0, damaged: 0, missing: 0, extra: 0 };
   for (const s of d.samples) if (s.intakeCondition) counts[s.intakeCondition as IntakeCondition]++;
   const notes = new Map(input.items.map((i) => [i.sampleId, i.note ?? null]));
@@ -354,13 +394,13 @@ export async function receiveSubmission(actor: Actor, projectId: string, submiss
       baseUrl: appBaseUrl(),
       project: d.project,
       submission: d,
-      receivedAt,
-      receivedBy: actor.name,
+      receivedAt: d.receivedAt?.toISOString() ?? new Date().toISOString(),
+      receivedBy,
       counts,
       discrepancies: d.samples.filter((s) => s.intakeCondition && s.intakeCondition !== "received").map((s) => ({ code: s.code, condition: s.intakeCondition!, note: notes.get(s.id) ?? null })),
     }),
   );
-  return { submission: d, mail };
+  return mail;
 }
 
 /** E-mail addresses of the project's leads. */

@@ -19,6 +19,15 @@ export interface OutboxMessage {
   text: string | null;
   html: string | null;
   headers: Record<string, string>;
+  /** Attached files, content as base64. */
+  attachments?: OutboxAttachment[];
+}
+
+export interface OutboxAttachment {
+  filename: string;
+  contentType: string;
+  size: number;
+  contentBase64: string;
 }
 
 /** Folder of captured mail: LITHODEX_DATA_DIR/outbox (LITHODEX_DATA_DIR defaults to data/files). */

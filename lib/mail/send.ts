@@ -9,6 +9,14 @@ export interface MailMessage {
   text: string;
   html: string;
   replyTo?: string;
+  /** Files sent with the message (e.g. the submission manifest as PDF). */
+  attachments?: MailAttachment[];
+}
+
+export interface MailAttachment {
+  filename: string;
+  contentType: string;
+  content: Uint8Array;
 }
 
 export interface SentMail {
@@ -66,11 +74,13 @@ export async function sendMail(msg: MailMessage, cfg: MailConfig = mailConfig())
       text: msg.text,
       html: msg.html,
       headers: { subject: msg.subject, ...(msg.replyTo && { "reply-to": msg.replyTo }) },
+      ...(msg.attachments?.length && { attachments: msg.attachments.map((a) => ({ filename: a.filename, contentType: a.contentType, size: a.content.byteLength, contentBase64: Buffer.from(a.content).toString("base64") })) }),
     });
     return { via: "embedded", messageId: saved.id, accepted: [...to, ...cc] };
   }
   try {
-    const info = await smtpTransport(cfg).sendMail({ from: cfg.from, to, cc, subject: msg.subject, text: msg.text, html: msg.html, replyTo: msg.replyTo });
+    const attachments = msg.attachments?.map((a) => ({ filename: a.filename, contentType: a.contentType, content: Buffer.from(a.content) }));
+    const info = await smtpTransport(cfg).sendMail({ from: cfg.from, to, cc, subject: msg.subject, text: msg.text, html: msg.html, replyTo: msg.replyTo, ...(attachments?.length && { attachments }) });
     return { via: "smtp", messageId: info.messageId, accepted: (info.accepted as (string | { address: string })[]).map((a) => (typeof a === "string" ? a : a.address)) };
   } catch (err) {
     throw new MailError(`The mail server at ${cfg.host}:${cfg.port} did not take the message: ${(err as Error).message}`, err);

@@ -40,13 +40,14 @@ export const manifestPath = (projectId: string, submissionId: string) => `${subm
 export const samplePath = (projectId: string, sampleId: string) => `/projects/${seg(projectId)}/samples/${seg(sampleId)}`;
 export const scanPath = (projectId: string, scanId: string) => `/projects/${seg(projectId)}/scans/${seg(scanId)}`;
 export const invitePath = (token: string) => `/invite/${seg(token)}`;
+export const labLinkPath = (token: string) => `/lab/${seg(token)}`;
 
-function layout(title: string, body: string): string {
+function layout(title: string, body: string, footer = "Sent by Lithodex. Links open the project in the app; sign in first."): string {
   return [
     `<!doctype html><html><body style="font-family:Arial,Helvetica,sans-serif;color:#17313a;line-height:1.45;max-width:640px">`,
     `<h1 style="font-size:18px;margin:0 0 12px">${escapeHtml(title)}</h1>`,
     body,
-    `<p style="color:#5f6b6d;font-size:12px;margin-top:24px">Sent by Lithodex. Links open the project in the app; sign in first.</p>`,
+    `<p style="color:#5f6b6d;font-size:12px;margin-top:24px">${escapeHtml(footer)}</p>`,
     `</body></html>`,
   ].join("\n");
 }
@@ -71,9 +72,18 @@ export function submissionDispatchedMail(input: {
   submission: { id: string; code: string; requestedAnalysis: string; priority: string; hazards: string | null; qaqcNote: string | null; notes: string | null; waybill: string | null; courier?: string | null };
   samples: ManifestLine[];
   sender: { name: string; email: string };
+  /**
+   * The lab link (no account needed; absolute URL) and when it expires. Absent when the lab's address belongs to a
+   * project member, who opens the submission with their own account.
+   */
+  labLink?: { url: string; expiresAt: Date } | null;
+  /** The manifest goes with the message as a PDF attachment. */
+  manifestAttached?: boolean;
 }): MailContent {
   const { baseUrl, project, submission: s, samples, sender } = input;
   const url = appLink(baseUrl, manifestPath(project.id, s.id));
+  const lab = input.labLink ?? null;
+  const until = lab ? formatUtc(lab.expiresAt.toISOString()) : "";
   const asbestos = samples.filter((x) => x.suspectedAsbestos).map((x) => x.code);
   const subject = `Sample submission ${s.code}: ${samples.length} sample${samples.length === 1 ? "" : "s"} for ${s.requestedAnalysis}${s.priority !== "routine" ? ` (${s.priority})` : ""}`;
   const line = (x: ManifestLine) => `${x.code}  ${SAMPLE_TYPE_LABELS[x.sampleType]}  ${x.weightKg != null ? `${x.weightKg} kg` : "—"}${x.suspectedAsbestos ? "  SUSPECTED ASBESTOS" : ""}`;
@@ -91,7 +101,15 @@ export function submissionDispatchedMail(input: {
     `Samples (${samples.length}):`,
     ...samples.map(line),
     "",
-    `Manifest and intake checklist: ${url}`,
+    ...(input.manifestAttached ? ["The manifest (packing list) is attached as a PDF."] : []),
+    ...(lab
+      ? [
+          `Record the intake and upload the scans of these samples (no account needed): ${lab.url}`,
+          `This link works for submission ${s.code} only and expires on ${until}. Keep it within the lab.`,
+          "",
+          `Lab staff with a Lithodex account in this project can sign in instead: ${url}`,
+        ]
+      : [`Manifest and intake checklist: ${url}`]),
     "Please record the receipt (condition of each bag, location, your batch number) in Lithodex when the shipment arrives.",
   ].join("\n");
   const rows = samples
@@ -109,9 +127,17 @@ export function submissionDispatchedMail(input: {
       s.qaqcNote ? `<p>QA/QC: ${escapeHtml(s.qaqcNote)}</p>` : "",
       s.notes ? `<p>Notes: ${escapeHtml(s.notes)}</p>` : "",
       `<table style="border-collapse:collapse;font-size:13px"><thead><tr><th style="text-align:left;padding:2px 8px">Sample</th><th style="text-align:left;padding:2px 8px">Type</th><th style="text-align:right;padding:2px 8px">Weight</th><th></th></tr></thead><tbody>${rows}</tbody></table>`,
-      button(url, "Open the manifest"),
+      input.manifestAttached ? `<p>The manifest (packing list) is attached as a PDF.</p>` : "",
+      lab
+        ? [
+            button(lab.url, "Record the intake and upload scans"),
+            `<p style="font-size:13px">No account needed. This link works for submission ${escapeHtml(s.code)} only and expires on ${escapeHtml(until)}; keep it within the lab.</p>`,
+            `<p style="font-size:13px">Lab staff with a Lithodex account in this project can <a href="${escapeHtml(url)}">sign in and open the manifest</a> instead.</p>`,
+          ].join("\n")
+        : button(url, "Open the manifest"),
       `<p>Please record the receipt (condition of each bag, location, your batch number) in Lithodex when the shipment arrives.</p>`,
     ].join("\n"),
+    lab ? "Sent by Lithodex on behalf of the project team." : undefined,
   );
   return { subject, text, html };
 }

@@ -87,3 +87,24 @@ test("submissionReportedMail mentions missing bags only when there are some", ()
   const some = submissionReportedMail({ baseUrl: base, project, submission: { id: "s1", code: "APR-SUB-0001" }, sampleCount: 9, missingCount: 2 });
   expect(some.text).toContain("2 samples were missing at intake and are not included.");
 });
+
+describe("submissionDispatchedMail to an outside lab (issue 11 §3)", () => {
+  const mail = submissionDispatchedMail({
+    baseUrl: base,
+    project,
+    submission: { id: "s1", code: "APR-SUB-0004", requestedAnalysis: "XRD bulk", priority: "routine", hazards: null, qaqcNote: null, notes: null, waybill: "WB 2" },
+    samples: [{ code: "APR-000030", sampleType: "chip", weightKg: 1, suspectedAsbestos: false }],
+    sender: { name: "Tomás Ferreira", email: "field@example.test" },
+    labLink: { url: "https://lab.example.test/lab/AbC_123", expiresAt: new Date("2026-04-19T15:30:00Z") },
+    manifestAttached: true,
+  });
+  test("the lab link comes first, says it needs no account, when it expires and that it covers this submission only", () => {
+    const links = hrefs(mail.html);
+    expect(links[0]).toBe("https://lab.example.test/lab/AbC_123");
+    expect(links[1]).toBe("https://lab.example.test/projects/p%201/submissions/s1/manifest");
+    expect(mail.text).toContain("Record the intake and upload the scans of these samples (no account needed): https://lab.example.test/lab/AbC_123");
+    expect(mail.text).toContain("works for submission APR-SUB-0004 only and expires on 2026-04-19 15:30 UTC");
+    expect(mail.text).toContain("The manifest (packing list) is attached as a PDF.");
+    expect(mail.html).not.toContain("sign in first");
+  });
+});

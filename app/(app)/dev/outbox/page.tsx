@@ -67,6 +67,11 @@ export default async function OutboxPage() {
                 <pre className="mt-2 whitespace-pre-wrap break-words font-sans text-sm">
                   <Linkified text={m.text ?? "(no text part)"} />
                 </pre>
+                {m.attachments && m.attachments.length > 0 && (
+                  <p className="mt-2 text-xs text-muted" data-testid="outbox-attachments">
+                    Attached: {m.attachments.map((a) => `${a.filename} (${a.contentType}, ${Math.max(1, Math.round(a.size / 1024))} KiB)`).join(", ")}
+                  </p>
+                )}
               </details>
             </li>
           ))}

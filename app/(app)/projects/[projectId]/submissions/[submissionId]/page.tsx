@@ -1,11 +1,13 @@
 import type { Metadata } from "next";
 import Link from "next/link";
+import { LabLinkPanel } from "@/components/submissions/lab-link-panel";
 import { SubmissionActions } from "@/components/submissions/submission-actions";
 import { CUSTODY_EVENT_LABELS, INTAKE_LABELS, PRIORITY_LABELS, SUBMISSION_STATUS_LABELS, formatInstant } from "@/components/submissions/labels";
 import { AsbestosBanner, LabSafetyNotes } from "@/components/submissions/lab-cautions";
 import { Badge } from "@/components/ui/badge";
 import { buttonClass } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
+import { listLabLinks } from "@/lib/dal/lab-links";
 import { roleAllows } from "@/lib/dal/permissions";
 import { currentActor, orNotFound } from "@/lib/dal/session";
 import { getSubmissionOrThrow, type SubmissionDetail } from "@/lib/dal/submissions";
@@ -44,6 +46,7 @@ export default async function SubmissionPage({ params }: { params: Promise<{ pro
   const d = await orNotFound(getSubmissionOrThrow(actor, projectId, submissionId));
   const can = (p: Parameters<typeof roleAllows>[1]) => actor.isAdmin || roleAllows(d.role, p);
   const codeOf = new Map(d.samples.map((s) => [s.id, s.code]));
+  const labLinks = d.status !== "draft" && can("submission.write") ? await listLabLinks(actor, projectId, submissionId) : [];
   const flagged = d.samples.filter((s) => s.suspectedAsbestos).map((s) => s.code);
   return (
     <div className="space-y-4">
@@ -62,6 +65,9 @@ export default async function SubmissionPage({ params }: { params: Promise<{ pro
         <Link href={`/projects/${projectId}/submissions/${d.id}/manifest`} className={buttonClass("secondary", "ml-auto")}>
           Packing list / manifest
         </Link>
+        <a href={`/api/projects/${projectId}/submissions/${d.id}/manifest`} className={buttonClass("ghost")}>
+          Manifest PDF
+        </a>
       </div>
       <AsbestosBanner codes={flagged} />
       <div className="grid gap-4 lg:grid-cols-2">
@@ -95,6 +101,11 @@ export default async function SubmissionPage({ params }: { params: Promise<{ pro
         samples={d.samples.map((s) => ({ id: s.id, code: s.code, status: s.status, intakeCondition: s.intakeCondition, suspectedAsbestos: s.suspectedAsbestos }))}
         can={{ send: can("submission.write"), lab: can("lab.intake"), handOver: can("custody.write") }}
       />
+      {d.status !== "draft" && can("submission.write") && (
+        <Card>
+          <LabLinkPanel projectId={projectId} submissionId={d.id} links={labLinks} zone={d.project.timeZone} />
+        </Card>
+      )}
       {d.status !== "draft" && <LabSafetyNotes />}
 
       <Card>
