@@ -23,9 +23,11 @@ import { processScan } from "@/lib/science/signal";
 import type { Anode } from "@/lib/science/types";
 
 export const USAGE = `usage:
-  xrd identify FILE [--anode Cu|Co|Fe|Cr|Mo|Ag] [--wavelength Å] [--elements Si,O,...] [--ka2 auto|yes|no] [--json]
+  xrd identify FILE [--anode Cu|Co|Fe|Cr|Mo|Ag] [--wavelength Å] [--elements Si,O,...] [--ka2 auto|yes|no] [--standard PHASE:WT] [--json]
       find candidate phases of a powder scan (XY/XYE, CSV or pdCIF) in the shipped reference library
       --elements lists every element the phases may contain (include O, H, C where they may occur)
+      --standard PHASE:WT  an internal standard of known weight (e.g. corundum:20 = 20 wt% of the spiked specimen):
+            weight fractions of the original specimen and its amorphous + unidentified part (Chung 1974)
       --ka2 whether the scan carries Kα2: auto (default) decides from the peak shapes, yes, or no (Kα1 only)
   xrd pattern FILE.cif [--anode Cu] [--wavelength Å] [--json]
       calculated powder pattern of a crystal structure (Bragg–Brentano, no monochromator, 2θ ≤ 90°)`;
@@ -49,6 +51,8 @@ interface Parsed {
   elements?: string[];
   /** Kα2 in the scan: decided from the profile (auto), or said (yes / no). */
   ka2?: "auto" | "yes" | "no";
+  /** Internal standard mixed into the specimen: library id and wt% of the spiked specimen (Chung 1974). */
+  standard?: { referenceId: string; wtPercent: number };
   json: boolean;
 }
 
@@ -61,7 +65,7 @@ export function parseArgs(argv: readonly string[]): Parsed {
     throw new CliError(command ? `unknown command "${command}"` : "no command given", true);
   }
   const out: Parsed = { command, file: "", json: false };
-  const allowed = command === "identify" ? ["--anode", "--wavelength", "--elements", "--ka2", "--json"] : ["--anode", "--wavelength", "--json"];
+  const allowed = command === "identify" ? ["--anode", "--wavelength", "--elements", "--ka2", "--standard", "--json"] : ["--anode", "--wavelength", "--json"];
   for (let i = 0; i < rest.length; i++) {
     const arg = rest[i];
     const [flag, inline] = arg.startsWith("--") && arg.includes("=") ? [arg.slice(0, arg.indexOf("=")), arg.slice(arg.indexOf("=") + 1)] : [arg, undefined];
@@ -85,6 +89,13 @@ export function parseArgs(argv: readonly string[]): Parsed {
       const w = Number(value);
       if (!(Number.isFinite(w) && w > 0.1 && w < 5)) throw new CliError(`--wavelength "${value}" must be a number of ångström between 0.1 and 5`);
       out.wavelength = w;
+    } else if (flag === "--standard") {
+      const m = /^([a-z0-9-]+):(\d+(?:\.\d+)?)$/i.exec(value.trim());
+      const phase = m ? findLibraryPhase(m[1]) : undefined;
+      const wt = m ? Number(m[2]) : NaN;
+      if (!m || !phase || !(wt > 0 && wt < 100))
+        throw new CliError(`--standard "${value}" must be PHASE:WT with a library phase (e.g. corundum:20) and 0 < WT < 100 wt% of the spiked specimen`);
+      out.standard = { referenceId: phase.id, wtPercent: wt };
     } else if (flag === "--ka2") {
       const k = value.toLowerCase();
       if (k !== "auto" && k !== "yes" && k !== "no") throw new CliError(`--ka2 "${value}" must be auto, yes or no`);
@@ -130,7 +141,7 @@ export interface IdentifyJson {
   rexp: number;
   gof: number;
   unexplained: { twoTheta: number; d: number; intensity: number }[];
-  quantification: { method: string; semiQuantitative: boolean; notes: string[] };
+  quantification: { method: string; semiQuantitative: boolean; amorphousWtPercent: number | null; notes: string[] };
 }
 
 function runIdentify(args: Parsed): { json: IdentifyJson; text: string } {
@@ -157,7 +168,7 @@ function runIdentify(args: Parsed): { json: IdentifyJson; text: string } {
     twoThetaRange: [scan.twoTheta[0], scan.twoTheta[n - 1]],
     elements,
   });
-  const fit = identifyWholePattern(processed, REFERENCE_LIBRARY, { elements });
+  const fit = identifyWholePattern(processed, REFERENCE_LIBRARY, { elements, ...(args.standard ? { internalStandard: args.standard } : {}) });
   const fitted = new Map(fit.phases.map((p) => [p.referenceId, p]));
   const listed = new Set(result.candidates.map((c) => c.referenceId));
   const json: IdentifyJson = {
@@ -185,7 +196,12 @@ function runIdentify(args: Parsed): { json: IdentifyJson; text: string } {
     rexp: fit.stats.rexp,
     gof: fit.stats.gof,
     unexplained: fit.unexplained,
-    quantification: { method: fit.quantification.method, semiQuantitative: fit.quantification.semiQuantitative, notes: fit.quantification.notes },
+    quantification: {
+      method: fit.quantification.method,
+      semiQuantitative: fit.quantification.semiQuantitative,
+      amorphousWtPercent: fit.quantification.amorphousWtPercent,
+      notes: fit.quantification.notes,
+    },
   };
   const out: string[] = [];
   out.push(`${args.file}: ${n} points, ${scan.twoTheta[0]}–${scan.twoTheta[n - 1]}° 2θ, λ = ${processed.wavelength} Å`);
@@ -203,6 +219,7 @@ function runIdentify(args: Parsed): { json: IdentifyJson; text: string } {
     out.push(
       `  ${p.mineral.padEnd(20)} ${p.wtPercent === null ? "wt% n/a" : `${p.wtPercent.toFixed(1).padStart(5)} ± ${(p.wtSigma ?? 0).toFixed(1)} wt%`}  ${p.evidence.aloneLines.length} lines of its own, ${(100 * p.evidence.profileShare).toFixed(0)} % of the profile${p.alternatives.length ? `; a pattern alone cannot tell it from ${p.alternatives.join(", ")}` : ""}`,
     );
+  if (fit.quantification.amorphousWtPercent !== null) out.push(`  amorphous + unidentified: ${fit.quantification.amorphousWtPercent.toFixed(1)} wt% (internal standard)`);
   for (const note of fit.quantification.notes) out.push(`  note: ${note}`);
   if (fit.unexplained.length > 0) out.push(`  unexplained peaks at d = ${fit.unexplained.map((p) => p.d.toFixed(3)).join(", ")} Å`);
   for (const p of fit.phases) {

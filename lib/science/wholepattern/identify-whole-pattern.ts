@@ -322,6 +322,17 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
       if (byProjection[k] && picked.size < maxCandidates) picked.add(byProjection[k]);
     }
     shortlist = [...picked];
+    // A declared internal standard is always a candidate.
+    const std = options.internalStandard?.referenceId;
+    if (std && !shortlist.some((c) => c.ref.id === std)) {
+      const index = library.findIndex((r) => r.id === std);
+      if (index >= 0) {
+        const ref = library[index];
+        const lines = phaseLines(ref, global.wavelength, range);
+        const a = alignCandidate(map, lines, global);
+        shortlist.push({ index, ref, lines, params: { ...initialParams(ref), cellScale: a.cellScale }, coverage: a.coverage, z: a.z, projection: a.projection });
+      }
+    }
   }
 
   // 2. Forward selection (or the analyst's phases).
@@ -479,8 +490,6 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
   // Phases a pattern cannot tell apart from the chosen one.
   const chosenIds = new Set(phases.map((p) => p.referenceId));
   for (const ph of phases) ph.alternatives = (alternativesOf.get(ph.referenceId) ?? []).filter((a) => !chosenIds.has(a.referenceId));
-  const reported = mergeLookalikes(phases, fit, data);
-
   const notes: string[] = [];
   let amorphous: number | null = null;
   if (options.internalStandard) {
@@ -497,7 +506,10 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
       });
     } else notes.push(`the declared internal standard (${options.internalStandard.referenceId}) was not found in the fit: fractions normalised to 100 %`);
   }
-  for (const p of reported)
+  const reported = mergeLookalikes(phases, fit, data);
+
+  // The RIR cross-check is normalised to 100 %: compared only with normalised fractions.
+  for (const p of amorphous === null ? reported : [])
     if (p.wtPercent !== null && p.rirWtPercent !== null && Math.abs(p.wtPercent - p.rirWtPercent) > 5)
       notes.push(`${p.mineral}: RIR estimate ${p.rirWtPercent} wt% differs from the whole-pattern ${p.wtPercent} wt% by more than 5 wt%`);
   if (hh.basis.some((b) => b === "RIR")) notes.push("some phases lack structure data: fractions from scales divided by RIR (Chung 1974)");

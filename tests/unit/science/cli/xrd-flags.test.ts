@@ -34,3 +34,12 @@ describe("--ka2 flag", () => {
     expect(USAGE).toMatch(/--ka2 auto\|yes\|no/);
   });
 });
+
+describe("--standard (Chung 1974 internal standard)", () => {
+  test("PHASE:WT names a library phase and the wt% of the spiked specimen", () => {
+    expect(parseArgs(["identify", "a.xy", "--standard", "corundum:20"]).standard).toEqual({ referenceId: "corundum", wtPercent: 20 });
+    expect(() => parseArgs(["identify", "a.xy", "--standard", "corundum"])).toThrow(CliError);
+    expect(() => parseArgs(["identify", "a.xy", "--standard", "unobtainium:20"])).toThrow(/PHASE:WT with a library phase/);
+    expect(() => parseArgs(["identify", "a.xy", "--standard", "corundum:100"])).toThrow(/0 < WT < 100/);
+  });
+});

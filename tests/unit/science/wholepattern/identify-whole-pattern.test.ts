@@ -65,3 +65,17 @@ describe("identifyWholePattern", () => {
     expect(r.unexplained.some((u) => Math.abs(u.d - 3.035) < 0.01)).toBe(true);
   });
 });
+
+describe("internal standard (Chung 1974, J. Appl. Cryst. 7, 526)", () => {
+  test("quartz 40 + corundum 20 wt% with 40 wt% invisible amorphous: declaring corundum 20 wt% gives quartz 50 % and 50 % amorphous of the original specimen", () => {
+    // The scan shows only the crystalline part, quartz:corundum = 2:1 by weight; with W_s = 0.2 of the spiked
+    // specimen, quartz is 0.4 of it, i.e. 0.4/0.8 = 50 % of the original, and the rest (50 %) is amorphous.
+    const processed = mixture([["quartz", 40], ["corundum", 20]], 9);
+    const r = identifyWholePattern(processed, REFERENCE_LIBRARY, { internalStandard: { referenceId: "corundum", wtPercent: 20 } });
+    const quartz = r.phases.find((p) => p.referenceId === "quartz")!;
+    expect(Math.abs(quartz.wtPercent! - 50)).toBeLessThan(3);
+    expect(r.quantification.semiQuantitative).toBe(false);
+    expect(Math.abs(r.quantification.amorphousWtPercent! - 50)).toBeLessThan(3);
+    expect(r.phases.find((p) => p.referenceId === "corundum")!.wtNote).toMatch(/internal standard/);
+  });
+});
