@@ -5,6 +5,7 @@
  * of automated identification (DOMAIN §6). Pages are written as they fill, so the register is streamed.
  */
 import { existsSync } from "node:fs";
+import path from "node:path";
 import type { PassThrough } from "node:stream";
 import PDFDocument from "pdfkit";
 import sharp, { type OverlayOptions } from "sharp";
@@ -12,6 +13,7 @@ import { phaseGlyphSvg, phaseSymbol } from "@/lib/phase-map";
 import { ASBESTOS_CAVEAT, CONFIRMED_VS_CANDIDATE, IDENTIFICATION_CAVEAT, SILICA_CAVEAT, isAsbestiform } from "./caveats";
 import { describeFilter } from "./filter-text";
 import { drained, fromNodeStream } from "./node-stream";
+import { processingSentences } from "./methods-text";
 import { formatWt, phaseNames } from "./phase-text";
 import { renderStaticMap } from "./static-map";
 import type { ExportRow, RegisterExport, RegisterReportData } from "./types";
@@ -19,8 +21,13 @@ import type { ExportRow, RegisterExport, RegisterReportData } from "./types";
 /** Register rows listed in the report; the CSV/XLSX exports carry every row. */
 export const PDF_MAX_ROWS = 2000;
 
-/** A TrueType font with Greek (Kα, 2θ) when the system has one (Debian: fonts-dejavu-core); else the PDF base-14 Helvetica. */
-const FONT_DIRS = ["/usr/share/fonts/truetype/dejavu"];
+/**
+ * DejaVu Sans, shipped with the app (assets/fonts/dejavu, licence beside it) and embedded as a subset: it has the
+ * Greek (Kα, 2θ) and the dashes the report uses. The system copy (Debian fonts-dejavu-core) and the base-14
+ * Helvetica are fallbacks for a checkout without the assets folder. The path is built from the working directory
+ * at run time (the app runs from the repository root), marked so the build's file tracing does not follow it.
+ */
+const FONT_DIRS = [path.join(/* turbopackIgnore: true */ process.cwd(), "assets", "fonts", "dejavu"), "/usr/share/fonts/truetype/dejavu"];
 function fonts(): { regular: string; bold: string; unicode: boolean } {
   for (const dir of FONT_DIRS) {
     const regular = `${dir}/DejaVuSans.ttf`;
@@ -120,11 +127,6 @@ async function legendImage(minerals: { mineral: string; group: string | null }[]
   return sharp({ create: { width, height, channels: 3, background: "#FFFFFF" } }).composite(comps).png().toBuffer();
 }
 
-const paramsText = (p: Record<string, unknown>): string =>
-  Object.entries(p)
-    .map(([k, v]) => `${k}: ${v && typeof v === "object" ? Object.entries(v as Record<string, unknown>).map(([a, b]) => `${a}=${typeof b === "object" ? JSON.stringify(b) : String(b)}`).join(", ") : String(v)}`)
-    .join("; ");
-
 async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
   const f = fonts();
   const doc = new PDFDocument({
@@ -133,6 +135,9 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
     font: f.regular,
     bufferPages: false,
     info: { Title: `${exp.project.code} sample register report`, Author: "Lithodex", Subject: exp.project.name, CreationDate: exp.generatedAt },
+    // Document language and the title in the viewer's window bar (PDF 1.7 §14.9.2, ViewerPreferences DisplayDocTitle).
+    lang: "en",
+    displayTitle: true,
   });
   const c: Ctx = { doc, t: f.unicode ? (s) => s : winAnsi, bold: f.bold, regular: f.regular };
   doc.pipe(out);
@@ -211,8 +216,8 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
   para(c, `X-ray powder diffraction of the signed-off scans: ${m.anodes.length ? m.anodes.map((a) => `${a.anode ?? "unknown anode"} Kα1 λ = ${a.wavelengthA.toFixed(5)} Å (${a.scans} scan${a.scans === 1 ? "" : "s"})`).join("; ") : "no signed-off scan in this selection"}.${m.instruments.length ? ` Instruments: ${m.instruments.join(", ")}.` : ""}`);
   if (m.processing.length) {
     doc.moveDown(0.3);
-    para(c, "Processing parameters of the current runs (peak search, background, smoothing and identification settings as recorded):");
-    for (const p of m.processing) para(c, `• ${p.runs} run${p.runs === 1 ? "" : "s"}, software ${p.softwareVersion}: ${paramsText(p.params)}`);
+    para(c, "Processing of the current runs, as recorded with each run:");
+    for (const p of m.processing) para(c, `• ${p.runs} run${p.runs === 1 ? "" : "s"} (software ${p.softwareVersion}): ${processingSentences(p.params).join(" ")}`);
   }
   doc.moveDown(0.3);
   para(c, "Phases were identified against calculated powder patterns of these reference structures; quantities are RIR (reference intensity ratio) estimates.");

@@ -186,6 +186,16 @@ describe("PDF report", () => {
     expect(text).toContain("Possible asbestiform mineral");
     expect(text).toContain("Cu Kα1 λ = 1.54059 Å");
     expect(text).toContain("Structure reference");
+    // Methods as sentences (lib/export/methods-text), no JSON record.
+    expect(text).toContain("Background by SNIP");
+    expect(text).not.toMatch(/[{}]|"\w+":/);
+    // Fonts (poppler's pdffonts): the shipped DejaVu Sans, embedded as subsets; no non-embedded base-14 font.
+    const fonts = execFileSync("/usr/bin/pdffonts", [file]).toString().split("\n").slice(2).filter(Boolean);
+    expect(fonts.length).toBeGreaterThan(0);
+    for (const line of fonts) {
+      expect(line).toMatch(/^[A-Z]{6}\+DejaVuSans(-Bold)?\s/);
+      expect(line.split(/\s+/).slice(-5, -4)[0], line).toBe("yes");
+    }
   }, 60_000);
 });
 
