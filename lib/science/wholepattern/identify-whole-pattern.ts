@@ -275,18 +275,14 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
   // 1. Shortlist.
   const smooth = smoothNet(y, Math.max(1, Math.round(0.25 * cagliotiFwhm(global.caglioti, (x[n >> 1] / 2) * RAD) / ((x[n - 1] - x[0]) / (n - 1)))));
   const map = signalMap(x, smooth, sigma);
-  let shortlist: Candidate[];
-  const forced = options.phaseIds;
-  if (forced) {
-    shortlist = forced.map((id) => {
-      const index = library.findIndex((r) => r.id === id);
-      if (index < 0) throw new RangeError(`unknown reference phase "${id}"`);
-      const ref = library[index];
-      const lines = phaseLines(ref, global.wavelength, range);
-      const a = alignCandidate(map, lines, global);
-      return { index, ref, lines, params: { ...initialParams(ref), cellScale: a.cellScale }, coverage: a.coverage, z: a.z, projection: a.projection };
-    });
-  } else {
+  const candidate = (index: number): Candidate => {
+    const ref = library[index];
+    const lines = phaseLines(ref, global.wavelength, range);
+    const a = alignCandidate(map, lines, global);
+    return { index, ref, lines, params: { ...initialParams(ref), cellScale: a.cellScale }, coverage: a.coverage, z: a.z, projection: a.projection };
+  };
+  // References sharing strong lines with the strongest observed peaks (within the cell freedom), aligned.
+  const lookupPool = (): Candidate[] => {
     const strongest = processed.peaks
       .map((p, i) => ({ i, h: p.height }))
       .sort((a, b) => b.h - a.h)
@@ -303,15 +299,24 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
           dRange,
         })
       : [];
-    const aligned = found
+    return found
       .filter((r) => usable(library[r]))
-      .map((index) => {
-        const ref = library[index];
-        const lines = phaseLines(ref, global.wavelength, range);
-        const a = alignCandidate(map, lines, global);
-        return { index, ref, lines, params: { ...initialParams(ref), cellScale: a.cellScale }, coverage: a.coverage, z: a.z, projection: a.projection };
-      })
+      .map(candidate)
       .filter((c) => c.lines.count > 0 && c.coverage >= 0.4);
+  };
+  let shortlist: Candidate[];
+  /** Where look-alikes are sought: the shortlist, or for the analyst's own phases the look-up's candidates. */
+  let alikePool: Candidate[];
+  const forced = options.phaseIds;
+  if (forced) {
+    shortlist = forced.map((id) => {
+      const index = library.findIndex((r) => r.id === id);
+      if (index < 0) throw new RangeError(`unknown reference phase "${id}"`);
+      return candidate(index);
+    });
+    alikePool = lookupPool();
+  } else {
+    const aligned = lookupPool();
     // Two rankings for recall: lines on signal beyond chance (many-line phases) and explained signal (major
     // phases with few lines).
     const byZ = aligned.slice().sort((a, b) => b.z - a.z);
@@ -324,15 +329,9 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
     shortlist = [...picked];
     // A declared internal standard is always a candidate.
     const std = options.internalStandard?.referenceId;
-    if (std && !shortlist.some((c) => c.ref.id === std)) {
-      const index = library.findIndex((r) => r.id === std);
-      if (index >= 0) {
-        const ref = library[index];
-        const lines = phaseLines(ref, global.wavelength, range);
-        const a = alignCandidate(map, lines, global);
-        shortlist.push({ index, ref, lines, params: { ...initialParams(ref), cellScale: a.cellScale }, coverage: a.coverage, z: a.z, projection: a.projection });
-      }
-    }
+    const stdIndex = std ? library.findIndex((r) => r.id === std) : -1;
+    if (stdIndex >= 0 && !shortlist.some((c) => c.index === stdIndex)) shortlist.push(candidate(stdIndex));
+    alikePool = shortlist;
   }
 
   // 2. Forward selection (or the analyst's phases).
@@ -415,7 +414,7 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
     const inFit = new Set(fit.phases.map((p) => p.lines.ref.id));
     const self = fit.phases[k];
     // A look-alike must look alike both ways: its strong lines on this phase's, and this phase's on its own.
-    const others = shortlist
+    const others = alikePool
       .filter((c) => !inFit.has(c.ref.id) && sharesLines(c.lines, self.lines, self.params.cellScale) && sharesLines(self.lines, c.lines, 1 / self.params.cellScale))
       .slice(0, MAX_LOOKALIKES);
     if (others.length === 0) continue;
@@ -430,7 +429,8 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
       const ev = refineFit(data, swapped, fit.global, { maxIterations: 8, only: k, frozen: fit });
       return { c, ev, s: score(ev, k) };
     });
-    const best = trials.reduce<{ c: Candidate | null; ev: FitEvaluation; s: number }>((m, t) => (t.s < m.s ? t : m), { c: null, ev: fit, s: ownScore });
+    // The analyst's own choice is never swapped; look-alikes are only listed.
+    const best = forced ? { c: null, ev: fit, s: ownScore } : trials.reduce<{ c: Candidate | null; ev: FitEvaluation; s: number }>((m, t) => (t.s < m.s ? t : m), { c: null, ev: fit, s: ownScore });
     const bestScore = best.s;
     const alike = [
       ...(best.c ? [{ referenceId: self.lines.ref.id, mineral: self.lines.ref.mineral, s: ownScore }] : []),
