@@ -4,3 +4,4 @@ export * from "./field";
 export * from "./lab";
 export * from "./scans";
 export * from "./audit";
+export * from "./sync";

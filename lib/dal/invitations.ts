@@ -4,11 +4,12 @@ import { and, eq, gt, isNull } from "drizzle-orm";
 import { getDb } from "@/db";
 import { invitations, projectMembers, projects, user } from "@/db/schema";
 import { appBaseUrl, invitationMail, sendMail } from "@/lib/mail";
+import { passwordProblem } from "@/lib/security/password";
 import { createUserWithPassword } from "@/lib/users";
 import { INVITATION_DAYS, invitationAcceptSchema, invitationCreateSchema } from "@/lib/validation/invitation";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
-import { AppError, conflict, notFound } from "./errors";
+import { AppError, conflict, invalid, notFound } from "./errors";
 import { ROLE_LABELS } from "./permissions";
 import { validateInput } from "./validate";
 
@@ -107,6 +108,10 @@ export async function acceptInvitation(token: string, raw: unknown) {
   const db = getDb();
   const [existing] = await db.select({ id: user.id, name: user.name }).from(user).where(eq(user.email, invitation.email));
   const input = existing ? null : validateInput(invitationAcceptSchema, raw);
+  if (input) {
+    const weak = passwordProblem(input.password, [invitation.email, input.name]);
+    if (weak) throw invalid("Choose another password.", { password: [weak] });
+  }
   // Claim first: only one request can turn acceptedAt from null to a time.
   const [claimed] = await db
     .update(invitations)

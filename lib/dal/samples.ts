@@ -6,6 +6,7 @@ import { sampleCreateSchema, samplePatchSchema, type SampleListQuery } from "@/l
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
 import { conflict, invalid, notFound, type AppError } from "./errors";
+import { createOnce, idempotencyFor } from "./idempotency";
 import { validateInput } from "./validate";
 
 export type SampleRow = typeof samples.$inferSelect;
@@ -120,13 +121,14 @@ export function isUniqueViolation(err: unknown, column: string): boolean {
   return msg.includes("UNIQUE") && msg.includes(column);
 }
 
-/** Creates a sample; issues the next code from the project sequence when none is given. */
-export async function createSample(actor: Actor, projectId: string, raw: unknown): Promise<SampleRow> {
+/** Creates a sample; issues the next code from the project sequence when none is given. Replay-safe with a client id or idempotency key (lib/dal/idempotency.ts). */
+export async function createSample(actor: Actor, projectId: string, raw: unknown, opts: { idempotencyKey?: string | null } = {}): Promise<SampleRow> {
   const access = await authorize(actor, projectId, "sample.write");
   const input = validateInput(sampleCreateSchema, raw);
   const db = getDb();
+  const idem = idempotencyFor(projectId, "sample.create", opts.idempotencyKey, input.id, input);
   try {
-    return await db.transaction(async (tx) => {
+    return await createOnce<SampleRow>(db, actor, idem, "samples.id", "sample", (remember) => db.transaction(async (tx) => {
       await assertStationInProject(tx, projectId, input.stationId);
       let code = input.code;
       if (!code) {
@@ -156,8 +158,9 @@ export async function createSample(actor: Actor, projectId: string, raw: unknown
         });
       }
       await audit(tx, actor, { projectId, action: "create", entity: "sample", entityId: row.id, after: row });
+      await remember(tx, row);
       return row;
-    });
+    }));
   } catch (err) {
     if (isUniqueViolation(err, "samples.code")) {
       throw conflict(`Sample code ${input.code} is already used in this project.`, { field: "code" });

@@ -6,6 +6,7 @@ import { stationCreateSchema, stationListQuerySchema, stationPatchSchema } from 
 import { authorize, type Actor } from "./actor";
 import { audit, type DbOrTx } from "./audit";
 import { conflict, notFound } from "./errors";
+import { createOnce, idempotencyFor } from "./idempotency";
 import { isUniqueViolation } from "./samples";
 import { validateInput } from "./validate";
 
@@ -104,21 +105,28 @@ function mapUnique(err: unknown, code: string | undefined): never {
   throw err;
 }
 
-/** Creates a station (lead, field geologist); the code comes from the station sequence when omitted. */
-export async function createStation(actor: Actor, projectId: string, raw: unknown): Promise<StationRow> {
+/**
+ * Creates a station (lead, field geologist); the code comes from the station sequence when omitted. A client id
+ * and/or idempotency key make it replay-safe: the same request again returns the first response, no duplicate.
+ */
+export async function createStation(actor: Actor, projectId: string, raw: unknown, opts: { idempotencyKey?: string | null } = {}): Promise<StationRow> {
   const access = await authorize(actor, projectId, "station.write");
   const input = validateInput(stationCreateSchema, raw);
   const db = getDb();
+  const idem = idempotencyFor(projectId, "station.create", opts.idempotencyKey, input.id, input);
   try {
-    return await db.transaction(async (tx) => {
-      const code = input.code ?? (await issueStationCode(tx, projectId, access.projectCode));
-      const [row] = await tx
-        .insert(stations)
-        .values({ ...input, code, projectId, createdBy: actor.userId })
-        .returning();
-      await audit(tx, actor, { projectId, action: "create", entity: "station", entityId: row.id, after: row });
-      return row;
-    });
+    return await createOnce<StationRow>(db, actor, idem, "stations.id", "station", (remember) =>
+      db.transaction(async (tx) => {
+        const code = input.code ?? (await issueStationCode(tx, projectId, access.projectCode));
+        const [row] = await tx
+          .insert(stations)
+          .values({ ...input, code, projectId, createdBy: actor.userId })
+          .returning();
+        await audit(tx, actor, { projectId, action: "create", entity: "station", entityId: row.id, after: row });
+        await remember(tx, row);
+        return row;
+      }),
+    );
   } catch (err) {
     mapUnique(err, input.code);
   }

@@ -7,6 +7,7 @@ import { structureCreateSchema, type StructureCreateInput } from "@/lib/validati
 import { authorize, type Actor } from "./actor";
 import { audit, type DbOrTx } from "./audit";
 import { invalid, notFound } from "./errors";
+import { createOnce, idempotencyFor } from "./idempotency";
 import { validateInput } from "./validate";
 
 export type StructureRow = typeof structures.$inferSelect;
@@ -72,16 +73,18 @@ async function loadPlane(db: DbOrTx, stationId: string, planeId: string) {
  * Adds a structural measurement to a station (lead, field geologist). Stored as true-north dip
  * direction/dip or trend/plunge; a lineation on a plane must lie in it (within 10°).
  */
-export async function createStructure(actor: Actor, projectId: string, stationId: string, raw: unknown): Promise<StructureRow> {
+export async function createStructure(actor: Actor, projectId: string, stationId: string, raw: unknown, opts: { idempotencyKey?: string | null } = {}): Promise<StructureRow> {
   await authorize(actor, projectId, "station.write");
   const input = validateInput(structureCreateSchema, raw);
   const db = getDb();
-  return db.transaction(async (tx) => {
+  const idem = idempotencyFor(projectId, `structure.create:${stationId}`, opts.idempotencyKey, input.id, input);
+  return createOnce<StructureRow>(db, actor, idem, "structures.id", "measurement", (remember) => db.transaction(async (tx) => {
     await stationInProject(tx, projectId, stationId);
     const stored = await toStored(tx, stationId, input);
     const [row] = await tx
       .insert(structures)
       .values({
+        ...(input.id ? { id: input.id } : {}),
         stationId,
         feature: input.feature,
         convention: input.convention,
@@ -94,8 +97,9 @@ export async function createStructure(actor: Actor, projectId: string, stationId
       })
       .returning();
     await audit(tx, actor, { projectId, action: "create", entity: "structure", entityId: row.id, after: row });
+    await remember(tx, row);
     return row;
-  });
+  }));
 }
 
 /** Removes a measurement; lineations measured on a removed plane keep their trend/plunge but lose the link. */

@@ -43,3 +43,6 @@ export function fieldErrors(error: z.ZodError): Record<string, string[]> {
   }
   return out;
 }
+
+/** A record id made by the client (offline capture), a UUID per RFC 9562 (UUIDv7 recommended: time-ordered). */
+export const clientId = z.uuid({ error: "id must be a UUID (RFC 9562), e.g. made with uuidv7() on the device." }).transform((v) => v.toLowerCase());

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { passwordLengthProblem } from "@/lib/security/password-length";
 import { PROJECT_ROLES } from "@/lib/vocabulary";
 
 export const invitationCreateSchema = z
@@ -12,7 +13,11 @@ export const invitationCreateSchema = z
 export const invitationAcceptSchema = z
   .object({
     name: z.string({ error: "Your name is required." }).trim().min(1, "Your name is required.").max(120, "At most 120 characters."),
-    password: z.string({ error: "A password is required." }).min(8, "Use at least 8 characters.").max(128, "At most 128 characters."),
+    // Length here (the browser can check it too); the common-password and guessability check runs in the DAL.
+    password: z.string({ error: "A password is required." }).superRefine((v, ctx) => {
+      const problem = passwordLengthProblem(v);
+      if (problem) ctx.addIssue({ code: "custom", message: problem });
+    }),
   })
   .strict();
 

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { ELEVATION_REFS, LOCATION_SOURCES, SAMPLE_STATUSES, SAMPLE_TYPES } from "@/lib/vocabulary";
-import { ianaZone, isoInstant, latitude, longitude, optionalText } from "./common";
+import { clientId, ianaZone, isoInstant, latitude, longitude, optionalText } from "./common";
 import { sampleDetailsSchema } from "./sample-details";
 
 export const SAMPLE_CODE_RE = /^[A-Z0-9][A-Z0-9-]{1,30}$/;
@@ -49,7 +49,7 @@ const detailsMessage = { message: "These details belong to another sample type; 
  * "collected" custody event is written) unless `planned` says it is not taken yet.
  */
 export const sampleCreateSchema = z
-  .object({ ...sampleFields, code: sampleFields.code.optional(), planned: z.boolean({ error: "planned is true or false." }).optional() })
+  .object({ ...sampleFields, id: clientId.optional(), code: sampleFields.code.optional(), planned: z.boolean({ error: "planned is true or false." }).optional() })
   .strict()
   .refine(bothOrNeither, coordMessage)
   .refine(detailsMatchType, detailsMessage);

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { ELEVATION_REFS, LOCATION_SOURCES } from "@/lib/vocabulary";
-import { isoInstant, latitude, longitude, optionalText } from "./common";
+import { clientId, isoInstant, latitude, longitude, optionalText } from "./common";
 
 /** Station codes: capital letters, digits and hyphens, e.g. APR-ST-045. */
 export const STATION_CODE_RE = /^[A-Z0-9][A-Z0-9-]{1,30}$/;
@@ -27,7 +27,7 @@ const stationFields = {
 };
 
 /** Create: the code is optional (the project's station sequence issues one, e.g. APR-ST-016). */
-export const stationCreateSchema = z.object({ ...stationFields, code: stationFields.code.optional() }).strict();
+export const stationCreateSchema = z.object({ ...stationFields, id: clientId.optional(), code: stationFields.code.optional() }).strict();
 
 /** Patch: any subset plus the version the client read (optimistic concurrency). */
 export const stationPatchSchema = z

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { optionalText } from "./common";
+import { clientId, optionalText } from "./common";
 
 export const PLANAR_FEATURES = ["bedding", "foliation", "cleavage", "joint", "fault", "vein", "contact", "dyke", "other"] as const;
 export const LINEAR_FEATURES = ["lineation", "fold_hinge", "slickenline", "other"] as const;
@@ -11,6 +11,7 @@ const inclination = (name: string) =>
   z.number({ error: `${name} must be a number (degrees).` }).min(0, `${name} must be between 0 and 90°.`).max(90, `${name} must be between 0 and 90°.`);
 
 const common = {
+  id: clientId.optional(),
   generation: z
     .string()
     .trim()

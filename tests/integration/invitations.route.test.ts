@@ -58,7 +58,11 @@ describe("invitations", () => {
     expect(info.json).toMatchObject({ email: "accept.me@example.test", role: "lab_analyst", existingAccount: false });
     const bad = await tokenCall(acceptRoute, token, { name: "", password: "short" });
     expect(bad.status).toBe(422);
-    expect(bad.json.error.fields).toEqual({ name: ["Your name is required."], password: ["Use at least 8 characters."] });
+    expect(bad.json.error.fields).toEqual({ name: ["Your name is required."], password: ["Use at least 12 characters (yours has 5); a passphrase of three or four unrelated words is easy to remember."] });
+    // A long but common password is refused too (issue 11 §1), nothing is created.
+    const common = await tokenCall(acceptRoute, token, { name: "Ana Lab", password: "password1234" });
+    expect(common.status).toBe(422);
+    expect(common.json.error.fields.password[0]).toMatch(/too easy to guess/);
     const ok = await tokenCall(acceptRoute, token, { name: "Ana Lab", password: "granite-quartz-42" });
     expect(ok.status, JSON.stringify(ok.json)).toBe(200);
     expect(ok.json).toMatchObject({ projectId: w.projectId, newAccount: true });

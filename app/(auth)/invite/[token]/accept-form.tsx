@@ -60,8 +60,8 @@ export function AcceptInvitationForm({ token, projectId, projectName, email, rol
           <Field label="Your name" htmlFor="name" error={fields.name}>
             <input id="name" name="name" autoComplete="name" required className={inputClass} />
           </Field>
-          <Field label="Password" htmlFor="password" error={fields.password} hint="At least 8 characters.">
-            <input id="password" name="password" type="password" autoComplete="new-password" minLength={8} required className={inputClass} />
+          <Field label="Password" htmlFor="password" error={fields.password} hint="At least 12 characters; a passphrase of unrelated words works well. Common passwords are refused.">
+            <input id="password" name="password" type="password" autoComplete="new-password" minLength={12} required className={inputClass} />
           </Field>
           <Field label="Password again" htmlFor="confirm" error={fields.confirm}>
             <input id="confirm" name="confirm" type="password" autoComplete="new-password" required className={inputClass} />

@@ -7,7 +7,7 @@ export const GET = withActor<{ projectId: string }>(async ({ actor, params, url 
   listSamples(actor, params.projectId, parseQuery(url, sampleListQuerySchema)),
 );
 
-// POST /api/projects/:projectId/samples — create a sample (lead, field geologist)
+// POST /api/projects/:projectId/samples — create a sample; replay-safe with a client id / Idempotency-Key (lead, field geologist)
 export const POST = withActor<{ projectId: string }>({ permission: "sample.write" }, async ({ actor, params, req }) =>
-  created(await createSample(actor, params.projectId, await parseJson(req))),
+  created(await createSample(actor, params.projectId, await parseJson(req), { idempotencyKey: req.headers.get("idempotency-key") })),
 );
