@@ -12,10 +12,15 @@ import { AppError } from "@/lib/dal/errors";
 import { roleAllows } from "@/lib/dal/permissions";
 import { getSampleOrThrow } from "@/lib/dal/samples";
 import type { SampleDetails } from "@/lib/validation/sample-details";
+import { recordTitle } from "@/lib/dal/record-titles";
 import { currentActor } from "@/lib/dal/session";
 import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS, formatCollected, formatLatLon } from "@/lib/format";
 
-export const metadata: Metadata = { title: "Sample" };
+/** The record in the title (e.g. "Sample APR-000123 · Lithodex"); a plain title when it is not visible. */
+export async function generateMetadata({ params }: { params: Promise<{ projectId: string; sampleId: string }> }): Promise<Metadata> {
+  const { projectId, sampleId } = await params;
+  return { title: (await recordTitle(await currentActor(), projectId, "sample", sampleId)) ?? "Sample" };
+}
 
 
 export default async function SamplePage({ params }: { params: Promise<{ projectId: string; sampleId: string }> }) {

@@ -5,9 +5,14 @@ import { ScanReview } from "@/components/scans/scan-review";
 import { Skeleton } from "@/components/ui/card";
 import { AppError } from "@/lib/dal/errors";
 import { assertScanVisible } from "@/lib/dal/scans";
+import { recordTitle } from "@/lib/dal/record-titles";
 import { currentActor } from "@/lib/dal/session";
 
-export const metadata: Metadata = { title: "Scan review" };
+/** The record in the title (e.g. "Sample APR-000123 · Lithodex"); a plain title when it is not visible. */
+export async function generateMetadata({ params }: { params: Promise<{ projectId: string; scanId: string }> }): Promise<Metadata> {
+  const { projectId, scanId } = await params;
+  return { title: (await recordTitle(await currentActor(), projectId, "scan", scanId)) ?? "Scan review" };
+}
 
 export default async function ScanPage({ params }: { params: Promise<{ projectId: string; scanId: string }> }) {
   const { projectId, scanId } = await params;

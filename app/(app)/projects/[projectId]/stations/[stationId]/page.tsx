@@ -9,12 +9,17 @@ import { Badge } from "@/components/ui/badge";
 import { buttonClass } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { roleAllows } from "@/lib/dal/permissions";
+import { recordTitle } from "@/lib/dal/record-titles";
 import { currentActor, orNotFound } from "@/lib/dal/session";
 import { getStationOrThrow } from "@/lib/dal/stations";
 import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS, formatCollected, formatDate, formatLatLon } from "@/lib/format";
 import { formatDmsPair, formatUtm, toUtm } from "@/lib/geo";
 
-export const metadata: Metadata = { title: "Station" };
+/** The record in the title (e.g. "Sample APR-000123 · Lithodex"); a plain title when it is not visible. */
+export async function generateMetadata({ params }: { params: Promise<{ projectId: string; stationId: string }> }): Promise<Metadata> {
+  const { projectId, stationId } = await params;
+  return { title: (await recordTitle(await currentActor(), projectId, "station", stationId)) ?? "Station" };
+}
 
 
 function utm(lat: number, lon: number): string {

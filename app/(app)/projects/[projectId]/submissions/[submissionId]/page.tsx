@@ -9,13 +9,18 @@ import { buttonClass } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
 import { listLabLinks } from "@/lib/dal/lab-links";
 import { roleAllows } from "@/lib/dal/permissions";
+import { recordTitle } from "@/lib/dal/record-titles";
 import { currentActor, orNotFound } from "@/lib/dal/session";
 import { getSubmissionOrThrow, type SubmissionDetail } from "@/lib/dal/submissions";
 import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS } from "@/lib/format";
 import type { CustodyEvent } from "@/lib/validation/custody";
 import type { IntakeCondition } from "@/lib/validation/submission";
 
-export const metadata: Metadata = { title: "Submission" };
+/** The record in the title (e.g. "Sample APR-000123 · Lithodex"); a plain title when it is not visible. */
+export async function generateMetadata({ params }: { params: Promise<{ projectId: string; submissionId: string }> }): Promise<Metadata> {
+  const { projectId, submissionId } = await params;
+  return { title: (await recordTitle(await currentActor(), projectId, "submission", submissionId)) ?? "Submission" };
+}
 
 function Row({ label, children }: { label: string; children: React.ReactNode }) {
   return (

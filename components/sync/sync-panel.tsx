@@ -1,0 +1,136 @@
+"use client";
+
+import { useEffect, useState } from "react";
+import { ConflictPanel, type ConflictField } from "@/components/stations/conflict-panel";
+import { Badge } from "@/components/ui/badge";
+import { Button } from "@/components/ui/button";
+import { discard, keepMine, requeue, syncProject, watchOutbox, type OutboxItem } from "@/lib/client/outbox";
+import { useOutbox } from "./use-outbox";
+
+const FIELDS: ConflictField[] = [
+  "code",
+  "name",
+  "sampleType",
+  "lithology",
+  "description",
+  "lat",
+  "lon",
+  "elevationM",
+  "horizontalAccuracyM",
+  "locationSource",
+  "collectedAt",
+  "stationId",
+  "storageLocation",
+].map((key) => ({ key, label: key }));
+
+const STATE_LABEL: Record<OutboxItem["state"], string> = { queued: "queued", sending: "sending", failed: "failed", conflict: "conflict" };
+const TONE = { queued: "brand", sending: "brand", failed: "danger", conflict: "oxide" } as const;
+
+/** The outbox of one project: what is waiting on this device, what failed and why, conflicts side by side, last sync. */
+export function SyncPanel({ projectId }: { projectId: string }) {
+  const { items, meta, online } = useOutbox(projectId);
+  const [busy, setBusy] = useState(false);
+  const count = (s: OutboxItem["state"]) => items.filter((i) => i.state === s).length;
+
+  async function syncNow() {
+    setBusy(true);
+    try {
+      await syncProject(projectId, { force: true });
+    } finally {
+      setBusy(false);
+    }
+  }
+
+  return (
+    <div className="space-y-4" data-testid="sync-panel">
+      <div className="flex flex-wrap items-center gap-3">
+        <Badge tone={online ? "ok" : "danger"}>{online ? "online" : "offline"}</Badge>
+        <span className="text-sm" data-testid="sync-counts">
+          {count("queued")} queued · {count("sending")} sending · {count("failed")} failed · {count("conflict")} conflicts
+        </span>
+        <Button type="button" onClick={syncNow} disabled={busy || !online}>
+          {busy ? "Syncing…" : "Sync now"}
+        </Button>
+      </div>
+      <p className="text-sm text-muted" data-testid="last-sync">
+        Last successful sync: {meta?.lastSyncAt ? new Date(meta.lastSyncAt).toLocaleString() : "not yet on this device"}
+        {meta?.lastResult ? ` (${meta.lastResult})` : ""}
+      </p>
+      {items.length === 0 ? (
+        <p className="text-sm" data-testid="outbox-empty">
+          Nothing waiting: everything saved on this device has reached the server.
+        </p>
+      ) : (
+        <ul className="space-y-3">
+          {items.map((item) => (
+            <li key={item.opId} className="rounded-md border border-line p-3" data-testid="outbox-item">
+              <div className="flex flex-wrap items-center gap-2">
+                <span className="font-medium">{item.label}</span>
+                <Badge tone="oxide">not yet synced</Badge>
+                <Badge tone={TONE[item.state]}>{STATE_LABEL[item.state]}</Badge>
+                <span className="text-xs text-muted">
+                  {item.action === "create" ? "new" : "edit"} · saved {new Date(item.createdAt).toLocaleString()}
+                  {item.attempts > 0 ? ` · ${item.attempts} attempt${item.attempts > 1 ? "s" : ""}` : ""}
+                </span>
+              </div>
+              {item.lastError && item.state !== "conflict" && <p className="mt-1 text-sm text-danger">Why: {item.lastError}</p>}
+              {item.state === "failed" && (
+                <div className="mt-2 flex gap-2">
+                  <Button type="button" variant="secondary" onClick={() => requeue(item.opId)}>
+                    Try again
+                  </Button>
+                  <Button type="button" variant="secondary" onClick={() => discard(item.opId)}>
+                    Discard
+                  </Button>
+                </div>
+              )}
+              {item.state === "conflict" && item.serverRecord && (
+                <div className="mt-2">
+                  <ConflictPanel fields={FIELDS} mine={item.body} theirs={item.serverRecord} onKeepMine={() => keepMine(item)} onTakeTheirs={() => discard(item.opId)} />
+                </div>
+              )}
+            </li>
+          ))}
+        </ul>
+      )}
+    </div>
+  );
+}
+
+/** Sends the outbox when the connection returns, and every minute while online. Mounted once in the project shell. */
+export function OutboxAutoSync({ projectId }: { projectId: string }) {
+  useEffect(() => {
+    const run = () => {
+      if (!navigator.onLine) return;
+      void syncProject(projectId).catch(() => undefined);
+      warmFieldScreens(projectId);
+    };
+    run();
+    window.addEventListener("online", run);
+    const t = window.setInterval(run, 60_000);
+    return () => {
+      window.removeEventListener("online", run);
+      window.clearInterval(t);
+    };
+  }, [projectId]);
+  return null;
+}
+
+/** Asks the service worker to cache the field screens of the project while online, so they open without signal. */
+function warmFieldScreens(projectId: string) {
+  const base = `/projects/${projectId}`;
+  const urlsToCache = ["/projects", base, `${base}/samples`, `${base}/samples/new`, `${base}/stations`, `${base}/map`, `${base}/sync`, `/api/projects/${projectId}/stations`];
+  navigator.serviceWorker?.controller?.postMessage({ type: "CACHE_URLS", payload: { urlsToCache } });
+}
+
+/** "n not yet synced" in the project header, linking to the sync panel. */
+export function OutboxBadge({ projectId }: { projectId: string }) {
+  const [n, setN] = useState(0);
+  useEffect(() => watchOutbox(projectId, ({ items }) => setN(items.length)), [projectId]);
+  if (n === 0) return null;
+  return (
+    <a href={`/projects/${projectId}/sync`} data-testid="outbox-badge">
+      <Badge tone="oxide">{n} not yet synced</Badge>
+    </a>
+  );
+}
