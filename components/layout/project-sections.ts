@@ -14,6 +14,7 @@ export function projectSections(projectId: string, role: ProjectRole): { href: s
     { href: `${base}/phase-map`, label: "Phase map" },
     { href: `${base}/members`, label: "Team" },
   ];
+  if (roleAllows(role, "sample.write") || roleAllows(role, "station.write")) items.push({ href: `${base}/sync`, label: "Sync" });
   if (roleAllows(role, "audit.read")) items.push({ href: `${base}/audit`, label: "Audit log" });
   if (roleAllows(role, "project.manage")) items.push({ href: `${base}/settings`, label: "Settings" });
   items.push({ href: "/library", label: "Reference library" });

@@ -4,6 +4,7 @@ import { useState } from "react";
 import { Button } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
 import type { MapStation } from "./types";
 
 /** New station at a position picked on the map; coordinates stay editable (WGS84, 6 decimals). */
@@ -23,6 +24,7 @@ export function NewStationForm({
   const [fields, setFields] = useState<Record<string, string[]>>({});
   const [problem, setProblem] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
+  const [clientId] = useState(newClientId);
 
   async function submit(e: React.FormEvent<HTMLFormElement>) {
     e.preventDefault();
@@ -40,9 +42,15 @@ export function NewStationForm({
     setProblem(null);
     setFields({});
     try {
-      const created = await fetchJson<MapStation>(`/api/projects/${projectId}/stations`, { method: "POST", json: body });
+      const created = await fetchJson<MapStation>(`/api/projects/${projectId}/stations`, { method: "POST", json: { ...body, id: clientId }, headers: { "idempotency-key": clientId } });
       onCreated(created);
     } catch (err) {
+      if (!(err instanceof ApiError) && isNetworkFailure(err)) {
+        // No connection: kept on this device and sent later with the same id and key (lib/client/outbox.ts).
+        await enqueue({ projectId, kind: "station", action: "create", recordId: clientId, opId: clientId, label: `New station${body.name ? ` "${body.name}"` : ""}`, body });
+        setProblem("No connection: the station is saved on this device and will be sent when you are back online (see Sync).");
+        return;
+      }
       if (err instanceof ApiError) {
         setProblem(err.message);
         setFields(err.fields ?? (err.details?.field ? { [String(err.details.field)]: [err.message] } : {}));

@@ -12,6 +12,7 @@ import { useDeviceZone } from "@/components/stations/use-device-zone";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
 import { SAMPLE_TYPE_LABELS } from "@/lib/format";
 import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo";
 import { emptySampleDetails, type SampleDetails } from "@/lib/validation/sample-details";
@@ -174,6 +175,7 @@ export function SampleForm({
   const { register, handleSubmit, setValue, control, setError, getValues, reset, formState } = useForm<SampleFormValues>({ resolver, defaultValues: initial });
   const [general, setGeneral] = useState<string[]>([]);
   const [conflict, setConflict] = useState<SampleRecord | null>(null);
+  const [clientId] = useState(newClientId);
   const [collectedLocal, setCollectedLocal] = useState(initial.collectedAt ? (utcToZonedLocal(initial.collectedAt, initial.collectedTz || "UTC") ?? "") : "");
   const allZones = useMemo(() => zones(), []);
   const w = useWatch({ control });
@@ -201,13 +203,29 @@ export function SampleForm({
   async function save(values: SampleFormValues, version?: number) {
     setGeneral([]);
     const body = toBody(values, creating);
+    // A create carries its client id and key, so a send whose answer was lost can be replayed (lib/client/outbox.ts).
+    const json: Record<string, unknown> = creating ? { ...body, id: clientId } : { ...body, version: version ?? values.version };
     try {
       const saved = creating
-        ? await fetchJson<SampleRecord>(`/api/projects/${projectId}/samples`, { method: "POST", json: body })
-        : await fetchJson<SampleRecord>(`/api/projects/${projectId}/samples/${sample!.id}`, { method: "PATCH", json: { ...body, version: version ?? values.version } });
+        ? await fetchJson<SampleRecord>(`/api/projects/${projectId}/samples`, { method: "POST", json, headers: { "idempotency-key": clientId } })
+        : await fetchJson<SampleRecord>(`/api/projects/${projectId}/samples/${sample!.id}`, { method: "PATCH", json });
       router.push(`/projects/${projectId}/samples/${saved.id}`);
       router.refresh();
     } catch (e) {
+      if (!(e instanceof ApiError) && isNetworkFailure(e)) {
+        const tag = typeof json.code === "string" && json.code ? `tag ${json.code}` : "code issued on sync";
+        await enqueue({
+          projectId,
+          kind: "sample",
+          action: creating ? "create" : "update",
+          recordId: creating ? clientId : sample!.id,
+          label: creating ? `New sample (${tag})` : `Edit of ${sample!.code}`,
+          body: json,
+          ...(creating && { opId: clientId }),
+        });
+        router.push(`/projects/${projectId}/sync`);
+        return;
+      }
       if (e instanceof ApiError && e.status === 409 && e.details?.current) {
         setConflict(e.details.current as SampleRecord);
         return;

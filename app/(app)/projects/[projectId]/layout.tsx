@@ -1,6 +1,7 @@
 import { AppHeader } from "@/components/layout/app-header";
 import { ProjectNav } from "@/components/layout/project-nav";
 import { projectSections } from "@/components/layout/project-sections";
+import { OutboxAutoSync, OutboxBadge } from "@/components/sync/sync-panel";
 import { ROLE_LABELS } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
 import { currentActor, orNotFound } from "@/lib/dal/session";
@@ -16,7 +17,9 @@ export default async function ProjectLayout({ children, params }: { children: Re
         <span className="hidden truncate text-sm text-muted md:block">
           <span className="font-medium text-ink">{project.name}</span> · {project.code}
         </span>
+        <OutboxBadge projectId={projectId} />
       </AppHeader>
+      <OutboxAutoSync projectId={projectId} />
       <ProjectNav items={items} />
       <div className="mx-auto max-w-7xl px-4 py-6">{children}</div>
     </>
