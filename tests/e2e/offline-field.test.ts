@@ -1,0 +1,84 @@
+/**
+ * Field work without signal, in a production build: after one online visit the app reopens offline (service worker),
+ * a station and a sample saved offline wait in the device's outbox ("not yet synced"), survive a reload, and arrive
+ * exactly once when the connection returns. Phone viewport 390×844 (a common phone size, "common practice").
+ */
+import { mkdirSync } from "node:fs";
+import type { Browser, Page } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, test } from "vitest";
+import { baseUrl, blockExternalNetwork, launchBrowser, openDemoProject, signInAs } from "./helpers";
+
+let browser: Browser;
+beforeAll(async () => {
+  browser = await launchBrowser();
+});
+afterAll(async () => {
+  await browser?.close();
+});
+
+const SHOTS = process.env.E2E_SCREENSHOT_DIR || "test-results/offline-field";
+
+async function waitForServiceWorker(page: Page) {
+  await page.waitForFunction(async () => !!(await navigator.serviceWorker?.ready), null, { timeout: 60_000 });
+  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
+  await page.waitForFunction(() => !!navigator.serviceWorker.controller, null, { timeout: 30_000 });
+}
+
+describe("offline capture on a phone", () => {
+  test("station and sample saved offline, reload offline, sync once online: exactly one record of each on the server", async () => {
+    mkdirSync(SHOTS, { recursive: true });
+    const ctx = await browser.newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 1, isMobile: true, hasTouch: true });
+    const page = await ctx.newPage();
+    await blockExternalNetwork(page);
+    await signInAs(page, "field");
+    const projectId = await openDemoProject(page);
+    const base = `${baseUrl()}/projects/${projectId}`;
+    await waitForServiceWorker(page);
+    // One online visit of each field screen (the service worker keeps the last copy of each page).
+    for (const p of ["/map", "/samples/new", "/sync", ""]) {
+      await page.goto(`${base}${p}`);
+      await page.waitForLoadState("networkidle");
+    }
+    const manifest = await page.request.get(`${baseUrl()}/manifest.webmanifest`);
+    expect(manifest.ok()).toBe(true);
+    expect((await manifest.json()).icons.length).toBeGreaterThanOrEqual(2);
+
+    await ctx.setOffline(true);
+
+    // The app opens offline.
+    await page.goto(`${base}/map`);
+    await expect.poll(() => page.getByRole("button", { name: "Place station" }).count(), { timeout: 30_000 }).toBe(1);
+    await page.getByRole("button", { name: "Place station" }).click();
+    const box = (await page.locator("#map").boundingBox())!;
+    await page.mouse.click(box.x + box.width * 0.4, box.y + box.height * 0.8);
+    await page.fill("#ns-name", "Offline outcrop E2E");
+    await page.getByRole("button", { name: "Create station" }).click();
+    await expect.poll(() => page.textContent("body")).toMatch(/saved on this device/);
+
+    await page.goto(`${base}/samples/new`);
+    await page.fill("#sf-code", "FT-E2E-0001");
+    await page.fill("#sf-lith", "gossan");
+    await page.getByRole("button", { name: "Create sample" }).click();
+    await page.waitForURL("**/sync", { timeout: 30_000 });
+    await expect.poll(() => page.locator("[data-testid=outbox-item]").count(), { timeout: 30_000 }).toBe(2);
+
+    // Reload offline: the page opens and the records are still there, marked as not yet synced.
+    await page.reload();
+    await expect.poll(() => page.locator("[data-testid=outbox-item]").count(), { timeout: 30_000 }).toBe(2);
+    expect(await page.getByText("not yet synced").count()).toBeGreaterThanOrEqual(2);
+    await page.screenshot({ path: `${SHOTS}/sync-panel-offline-390.png`, fullPage: true });
+
+    await ctx.setOffline(false);
+    await page.getByRole("button", { name: "Sync now" }).click();
+    await expect.poll(() => page.locator("[data-testid=outbox-empty]").count(), { timeout: 30_000 }).toBe(1);
+    await expect.poll(() => page.textContent("[data-testid=last-sync]")).not.toMatch(/not yet/);
+    await page.screenshot({ path: `${SHOTS}/sync-panel-synced-390.png`, fullPage: true });
+
+    const samples = await (await page.request.get(`${baseUrl()}/api/projects/${projectId}/samples?code=FT-E2E-0001`)).json();
+    expect(samples.total).toBe(1);
+    expect(samples.items[0].code).toBe("FT-E2E-0001");
+    const stations = await (await page.request.get(`${baseUrl()}/api/projects/${projectId}/stations?q=Offline%20outcrop%20E2E`)).json();
+    expect(stations.total).toBe(1);
+    await ctx.close();
+  });
+});
