@@ -111,7 +111,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
     try {
       await fetchJson(`/api/projects/${projectId}/stations/${movingStation.id}`, {
         method: "PATCH",
-        json: { version: movingStation.version, lat: Number(movePos[0].toFixed(6)), lon: Number(movePos[1].toFixed(6)), locationSource: "map" },
+        json: { version: movingStation.version, lat: Number(movePos[0].toFixed(6)), lon: Number(movePos[1].toFixed(6)), locationSource: "map", horizontalAccuracyM: null, locationFixedAt: null },
       });
       setNotice({ tone: "ok", text: `Station ${movingStation.code} moved.` });
       setModeKind({ kind: "browse" });

@@ -4,6 +4,7 @@ import { useId, useState } from "react";
 import { Button } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { formatDmsPair, parseLatLon, toUtm, formatUtm, UtmRangeError } from "@/lib/geo";
+import { afterManualPosition } from "@/lib/geo/position-source";
 import { ELEVATION_REFS, LOCATION_SOURCES } from "@/lib/vocabulary";
 import { ELEVATION_REF_LABELS, LOCATION_SOURCE_LABELS, type ElevationRef, type LocationSource, type LocationValue } from "./location-labels";
 
@@ -73,7 +74,8 @@ export function LocationFields({
     const p = parseLatLon(t);
     if (p.ok) {
       setParseError(null);
-      onChange({ lat: p.lat, lon: p.lon, locationFixedAt: null });
+      // A typed position is not the device's: its source, accuracy and fix time go (lib/geo/position-source.ts).
+      onChange({ lat: p.lat, lon: p.lon, ...afterManualPosition(value) });
     } else {
       setParseError(p.error);
       onChange({ lat: null, lon: null });
