@@ -449,8 +449,9 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
   const sig = scaleSigmas(data, fit, parameters);
   const deltas = fit.phases.length ? removalDeltaBic(data, fit, nEff) : [];
   const phaseProfiles = fit.renders.map((_, k) => phaseProfile(fit, k));
+  // Shares are of the phases' summed profile (the background correction is no phase's).
   let calcTotal = 0;
-  for (let i = 0; i < n; i++) calcTotal += Math.max(0, fit.calc[i]);
+  for (const prof of phaseProfiles) for (let i = 0; i < n; i++) calcTotal += prof[i];
   const quant: QuantPhase[] = fit.phases.map((p, k) => ({
     scale: fit.scales[k],
     scaleSigma: sig[k],
@@ -693,14 +694,16 @@ function sharesLines(c: PhaseLines, p: PhaseLines, pCell: number, ratioLimit = 0
   return false;
 }
 
-/** Share of the calculated net profile that phase k explains. */
+/** Share of the phases' summed profile (area) that phase k explains. */
 function share(fit: FitEvaluation, k: number): number {
-  let own = 0;
-  let all = 0;
-  const r = fit.renders[k];
-  for (let i = r.span[0]; i <= r.span[1]; i++) own += fit.scales[k] * r.value[i];
-  for (let i = 0; i < fit.calc.length; i++) all += Math.max(0, fit.calc[i]);
-  return all > 0 ? own / all : 0;
+  const area = (j: number) => {
+    const r = fit.renders[j];
+    let a = 0;
+    for (let i = r.span[0]; i <= r.span[1]; i++) a += r.value[i];
+    return fit.scales[j] * a;
+  };
+  const all = fit.renders.reduce((s, _, j) => s + area(j), 0);
+  return all > 0 ? area(k) / all : 0;
 }
 
 /** Phase k's scaled contribution on the grid. */

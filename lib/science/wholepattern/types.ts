@@ -56,7 +56,7 @@ export interface EvidenceLine {
 export interface PhaseEvidence {
   /** Lines of this phase that stand alone (≥ 70 % of the calculated profile there, observed ≥ 3σ). */
   aloneLines: EvidenceLine[];
-  /** Share of the whole calculated net profile (area) that this phase explains (0–1). */
+  /** Share of the phases' summed calculated profile (area) that this phase explains (0–1). */
   profileShare: number;
   /** How much worse the fit gets (Bayesian information criterion, Schwarz 1978) when the phase is removed. */
   deltaBic: number;
