@@ -137,7 +137,8 @@ export async function createTilePackage(actor: Actor, projectId: string, upload:
     const id = randomUUID();
     const key = tilePackageKey(projectId, id);
     const storage = getStorage();
-    await storage.put(key, createReadStream(tmp.path));
+    // Runtime paths (a temp file, the file store): keep them out of the build's file tracing.
+    await storage.put(key, createReadStream(/* turbopackIgnore: true */ tmp.path));
     try {
       return await getDb().transaction(async (tx) => {
         const [row] = await tx

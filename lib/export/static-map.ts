@@ -70,7 +70,7 @@ function overlaySvg(layout: StaticMapLayout, stations: readonly PhaseMapStation[
 
 /** Renders the map of `stations` as a PNG (and the layout used). */
 export async function renderStaticMap(stations: readonly PhaseMapStation[], options: StaticMapOptions = {}): Promise<{ png: Buffer; layout: StaticMapLayout }> {
-  const { width = 1000, height = 640, candidates = true, mineral = null, tilesDir = join(process.cwd(), "public", "tiles-offline") } = options;
+  const { width = 1000, height = 640, candidates = true, mineral = null, tilesDir = join(/* turbopackIgnore: true */ process.cwd(), "public", "tiles-offline") } = options;
   const d = OFFLINE_DISTRICT_BBOX;
   const layout = staticMapLayout(stations, { width, height, maxZoom: OFFLINE_MAX_ZOOM, fallbackCenter: { lon: (d.west + d.east) / 2, lat: (d.south + d.north) / 2 }, minZoom: stations.length ? 0 : 11 });
   // Canvas covering whole tiles (sharp composites at non-negative offsets), cropped to the frame afterwards.
@@ -82,7 +82,7 @@ export async function renderStaticMap(stations: readonly PhaseMapStation[], opti
     layout.tiles.map(async (t) => {
       if (!hasOfflineTile(t.z, t.x, t.y)) return null;
       try {
-        return { input: await readFile(join(tilesDir, String(t.z), String(t.x), `${t.y}.png`)), left: t.left - minLeft, top: t.top - minTop };
+        return { input: await readFile(/* turbopackIgnore: true */ join(tilesDir, String(t.z), String(t.x), `${t.y}.png`)), left: t.left - minLeft, top: t.top - minTop };
       } catch {
         return null;
       }
