@@ -194,7 +194,41 @@ export function SampleRegister({ projectId, children }: { projectId: string; chi
         </p>
       )}
 
-      <div className="overflow-x-auto rounded-lg border border-line bg-white">
+      {/* Narrow screens: one card per sample (the table needs 720 px). */}
+      <ul className="space-y-2 md:hidden" data-testid="register-cards" aria-busy={isFetching}>
+        {table.getRowModel().rows.map((row) => {
+          const s = row.original;
+          return (
+            <li key={row.id} className={cn("rounded-lg border border-line bg-white p-3", row.getIsSelected() && "border-brand bg-brand-light/60")}>
+              <div className="flex items-start gap-3">
+                <input type="checkbox" className="mt-1 h-5 w-5" aria-label={`Select ${s.code}`} checked={row.getIsSelected()} onChange={row.getToggleSelectedHandler()} />
+                <div className="min-w-0 flex-1 space-y-1">
+                  <div className="flex flex-wrap items-center justify-between gap-2">
+                    <Link className="font-semibold text-brand hover:underline" href={`/projects/${projectId}/samples/${s.id}`}>
+                      {s.code}
+                    </Link>
+                    <Badge tone={s.status === "confirmed" ? "ok" : "neutral"}>{SAMPLE_STATUS_LABELS[s.status]}</Badge>
+                  </div>
+                  <p className="text-sm text-ink">
+                    {SAMPLE_TYPE_LABELS[s.sampleType]}
+                    {s.lithology ? ` · ${s.lithology}` : ""}
+                  </p>
+                  <p className="text-xs text-muted">
+                    {s.stationCode ? `${s.stationCode} · ` : ""}
+                    {formatDate(s.collectedAt)}
+                    {s.collectorName ? ` · ${s.collectorName}` : ""}
+                  </p>
+                  {s.suspectedAsbestos && <Badge tone="danger">Suspected asbestos</Badge>}
+                </div>
+              </div>
+            </li>
+          );
+        })}
+        {data && items.length === 0 && <li className="rounded-lg border border-line bg-white px-3 py-8 text-center text-muted">No samples match these filters.</li>}
+        {!data && Array.from({ length: 4 }, (_, i) => <li key={i} className="h-20 animate-pulse rounded-lg border border-line bg-line/40" />)}
+      </ul>
+
+      <div className="hidden overflow-x-auto rounded-lg border border-line bg-white md:block">
         <table className="w-full min-w-[720px] text-sm" aria-busy={isFetching}>
           <thead className="bg-stone text-left text-xs uppercase tracking-wide text-muted">
             {table.getHeaderGroups().map((hg) => (

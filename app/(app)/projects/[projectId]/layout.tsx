@@ -1,8 +1,9 @@
 import { AppHeader } from "@/components/layout/app-header";
+import { BottomNav } from "@/components/layout/bottom-nav";
 import { ProjectNav } from "@/components/layout/project-nav";
 import { projectSections } from "@/components/layout/project-sections";
 import { OutboxAutoSync, OutboxBadge } from "@/components/sync/sync-panel";
-import { ROLE_LABELS } from "@/lib/dal/permissions";
+import { ROLE_LABELS, roleAllows } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
 import { currentActor, orNotFound } from "@/lib/dal/session";
 
@@ -21,7 +22,8 @@ export default async function ProjectLayout({ children, params }: { children: Re
       </AppHeader>
       <OutboxAutoSync projectId={projectId} />
       <ProjectNav items={items} />
-      <div className="mx-auto max-w-7xl px-4 py-6">{children}</div>
+      <div className="mx-auto max-w-7xl px-4 pb-24 pt-6 md:py-6">{children}</div>
+      <BottomNav projectId={projectId} canWrite={roleAllows(project.role, "sample.write")} />
     </>
   );
 }
