@@ -13,7 +13,7 @@ export function AppHeader({ actor, roleLabel, children }: { actor: Actor; roleLa
           </Link>
           {children}
         </div>
-        <UserMenu name={actor.name} email={actor.email} roleLabel={roleLabel ?? (actor.isAdmin ? "Site admin" : undefined)} />
+        <UserMenu name={actor.name} email={actor.email} roleLabel={roleLabel ?? (actor.isAdmin ? "Site admin" : undefined)} isAdmin={actor.isAdmin} />
       </div>
     </header>
   );

@@ -5,7 +5,7 @@ import { useEffect, useRef, useState } from "react";
 import { authClient } from "@/lib/auth-client";
 
 /** Name, e-mail and the role in the current project; sign-out. */
-export function UserMenu({ name, email, roleLabel }: { name: string; email: string; roleLabel?: string }) {
+export function UserMenu({ name, email, roleLabel, isAdmin }: { name: string; email: string; roleLabel?: string; isAdmin?: boolean }) {
   const [open, setOpen] = useState(false);
   const router = useRouter();
   const ref = useRef<HTMLDivElement>(null);
@@ -41,6 +41,11 @@ export function UserMenu({ name, email, roleLabel }: { name: string; email: stri
           <p className="px-2 py-1 text-sm font-medium">{name}</p>
           <p className="px-2 pb-1 text-xs text-muted">{email}</p>
           {roleLabel && <p className="px-2 pb-2 text-xs text-muted sm:hidden">{roleLabel}</p>}
+          {isAdmin && (
+            <a role="menuitem" href="/admin/users" className="block w-full rounded px-2 py-1.5 text-left text-sm hover:bg-stone">
+              Accounts (site admin)
+            </a>
+          )}
           <button
             role="menuitem"
             className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-stone"

@@ -98,3 +98,24 @@ export const invitations = sqliteTable(
   },
   (t) => [uniqueIndex("invitations_token_uq").on(t.tokenHash), index("invitations_project_idx").on(t.projectId)],
 );
+
+/**
+ * Single-use links to set a password: "invite" for an account a site admin created, "reset" when a site admin sends a
+ * reset. The token is stored as its SHA-256; the plain token exists only in the e-mail.
+ */
+export const passwordTokens = sqliteTable(
+  "password_tokens",
+  {
+    id: id(),
+    userId: text("user_id")
+      .notNull()
+      .references(() => user.id, { onDelete: "cascade" }),
+    purpose: text("purpose", { enum: ["invite", "reset"] }).notNull(),
+    tokenHash: text("token_hash").notNull(),
+    expiresAt: integer("expires_at", { mode: "timestamp_ms" }).notNull(),
+    usedAt: integer("used_at", { mode: "timestamp_ms" }),
+    createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [uniqueIndex("password_tokens_token_uq").on(t.tokenHash), index("password_tokens_user_idx").on(t.userId)],
+);

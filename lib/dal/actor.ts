@@ -3,7 +3,7 @@ import { and, eq } from "drizzle-orm";
 import { getDb } from "@/db";
 import { projectMembers, projects, type ProjectRole } from "@/db/schema";
 import { getAuth } from "@/lib/auth";
-import { forbidden, notFound, unauthorized } from "./errors";
+import { AppError, forbidden, notFound, unauthorized } from "./errors";
 import { roleAllows, type Permission } from "./permissions";
 
 /** The signed-in user as every DAL function sees it. */
@@ -38,6 +38,9 @@ export async function requireActor(headers: Headers): Promise<Actor> {
   return actor;
 }
 
+/** Permissions that still work in an archived project. */
+const READ_ONLY_OK = new Set<Permission>(["project.read", "export.read", "audit.read", "project.manage"]);
+
 export interface ProjectAccess {
   projectId: string;
   projectCode: string;
@@ -52,14 +55,16 @@ export interface ProjectAccess {
 export async function authorize(actor: Actor, projectId: string, permission: Permission): Promise<ProjectAccess> {
   const db = getDb();
   const [row] = await db
-    .select({ id: projects.id, code: projects.code, role: projectMembers.role })
+    .select({ id: projects.id, code: projects.code, role: projectMembers.role, archivedAt: projects.archivedAt })
     .from(projects)
     .leftJoin(projectMembers, and(eq(projectMembers.projectId, projects.id), eq(projectMembers.userId, actor.userId)))
     .where(eq(projects.id, projectId))
     .limit(1);
   if (!row) throw notFound("Project not found.");
-  if (actor.isAdmin) return { projectId: row.id, projectCode: row.code, role: row.role ?? "lead" };
-  if (!row.role) throw notFound("Project not found.");
-  if (!roleAllows(row.role, permission)) throw forbidden();
-  return { projectId: row.id, projectCode: row.code, role: row.role };
+  if (!actor.isAdmin && !row.role) throw notFound("Project not found.");
+  const role = row.role ?? "lead";
+  if (!actor.isAdmin && !roleAllows(role, permission)) throw forbidden();
+  // An archived project is read-only: only reading, exporting, the audit and the settings (to unarchive) stay open.
+  if (row.archivedAt && !READ_ONLY_OK.has(permission)) throw new AppError("conflict", "This project is archived and read-only. A lead can unarchive it in the project settings.", undefined, { archived: true });
+  return { projectId: row.id, projectCode: row.code, role };
 }

@@ -1,9 +1,14 @@
 import "server-only";
 import { and, count, eq, sql } from "drizzle-orm";
 import { getDb } from "@/db";
-import { phaseResults, projectMembers, projects, samples, scans, stations, submissions, user } from "@/db/schema";
+import { organisations, phaseResults, projectMembers, projects, samples, scans, stations, submissions, user } from "@/db/schema";
+import { projectArchiveSchema, projectCreateSchema, projectPatchSchema } from "@/lib/validation/project";
 import type { Actor } from "./actor";
 import { authorize } from "./actor";
+import { audit } from "./audit";
+import { conflict, forbidden, notFound } from "./errors";
+import { isUniqueViolation } from "./samples";
+import { validateInput } from "./validate";
 
 /** Projects the actor is a member of (all projects for a site admin), with the actor's role. */
 export async function listProjects(actor: Actor) {
@@ -15,6 +20,7 @@ export async function listProjects(actor: Actor) {
       name: projects.name,
       region: projects.region,
       description: projects.description,
+      archivedAt: projects.archivedAt,
       role: projectMembers.role,
       sampleCount: sql<number>`(select count(*) from ${samples} where ${samples.projectId} = ${projects.id})`,
     })
@@ -63,4 +69,96 @@ export async function getProjectOverview(actor: Actor, projectId: string) {
     byStatus: Object.fromEntries(byStatus.map((r) => [r.status, r.n])) as Record<string, number>,
     members,
   };
+}
+
+/** Whether the actor may create projects: site admins, or anyone when the site allows it (LITHODEX_OPEN_PROJECTS=1). */
+export function canCreateProjects(actor: Actor): boolean {
+  return actor.isAdmin || process.env.LITHODEX_OPEN_PROJECTS === "1";
+}
+
+const codeTaken = (code: string) => conflict(`Project code ${code} is already used by another project.`, { field: "code" });
+
+/**
+ * Creates a project (site admin, or any user when the site allows it); the creator becomes its lead. Audited.
+ * A taken code is a 409 naming the field.
+ */
+export async function createProject(actor: Actor, raw: unknown) {
+  if (!canCreateProjects(actor)) throw forbidden("Only a site admin can create projects on this site.");
+  const input = validateInput(projectCreateSchema, raw);
+  const db = getDb();
+  try {
+    return await db.transaction(async (tx) => {
+      let [org] = await tx.select({ id: organisations.id }).from(organisations).orderBy(organisations.createdAt).limit(1);
+      if (!org) [org] = await tx.insert(organisations).values({ name: "Our organisation" }).returning({ id: organisations.id });
+      const [row] = await tx.insert(projects).values({ ...input, labInHouse: input.labInHouse ?? false, organisationId: org.id, createdBy: actor.userId }).returning();
+      await tx.insert(projectMembers).values({ projectId: row.id, userId: actor.userId, role: "lead" });
+      await audit(tx, actor, { projectId: row.id, action: "create", entity: "project", entityId: row.id, after: row });
+      return row;
+    });
+  } catch (err) {
+    if (isUniqueViolation(err, "projects.code")) throw codeTaken(input.code);
+    throw err;
+  }
+}
+
+/** The settings form's record (lead, site admin). */
+export async function getProjectSettings(actor: Actor, projectId: string) {
+  await authorize(actor, projectId, "project.manage");
+  const db = getDb();
+  const [[project], [{ n }]] = await Promise.all([
+    db.select().from(projects).where(eq(projects.id, projectId)),
+    db.select({ n: count() }).from(samples).where(eq(samples.projectId, projectId)),
+  ]);
+  return { ...project, sampleCount: n, codeLocked: n > 0 };
+}
+
+/**
+ * Edits the project settings (lead, site admin) if the form's version is current (409 with the current record
+ * otherwise). The code prefixes sample codes, so it can change only while the project has no samples. Audited.
+ */
+export async function updateProject(actor: Actor, projectId: string, raw: unknown) {
+  await authorize(actor, projectId, "project.manage");
+  const { version, ...changes } = validateInput(projectPatchSchema, raw);
+  const db = getDb();
+  try {
+    return await db.transaction(async (tx) => {
+      const [before] = await tx.select().from(projects).where(eq(projects.id, projectId));
+      if (!before) throw notFound("Project not found.");
+      if (before.version !== version) throw conflict("The settings were changed by someone else since you opened them. Review their version and apply your changes again.", { current: before });
+      if (changes.code && changes.code !== before.code) {
+        const [{ n }] = await tx.select({ n: count() }).from(samples).where(eq(samples.projectId, projectId));
+        if (n > 0) throw conflict(`The code prefixes the ${n} sample codes already issued, so it cannot change now.`, { field: "code" });
+      }
+      const [row] = await tx
+        .update(projects)
+        .set({ ...changes, version: before.version + 1 })
+        .where(and(eq(projects.id, projectId), eq(projects.version, version)))
+        .returning();
+      if (!row) throw conflict("The settings were changed by someone else just now.");
+      await audit(tx, actor, { projectId, action: "update", entity: "project", entityId: projectId, before, after: row });
+      return row;
+    });
+  } catch (err) {
+    if (isUniqueViolation(err, "projects.code")) throw codeTaken(String(changes.code));
+    throw err;
+  }
+}
+
+/** Archives a project (read-only from then on) or brings it back (lead, site admin). Audited. */
+export async function setProjectArchived(actor: Actor, projectId: string, raw: unknown) {
+  await authorize(actor, projectId, "project.manage");
+  const { archived } = validateInput(projectArchiveSchema, raw);
+  const db = getDb();
+  return db.transaction(async (tx) => {
+    const [before] = await tx.select().from(projects).where(eq(projects.id, projectId));
+    if (!before) throw notFound("Project not found.");
+    if (!!before.archivedAt === archived) return before;
+    const [row] = await tx
+      .update(projects)
+      .set({ archivedAt: archived ? new Date() : null, version: before.version + 1 })
+      .where(eq(projects.id, projectId))
+      .returning();
+    await audit(tx, actor, { projectId, action: archived ? "archive" : "unarchive", entity: "project", entityId: projectId, before: { archivedAt: before.archivedAt }, after: { archivedAt: row.archivedAt } });
+    return row;
+  });
 }

@@ -8,7 +8,8 @@ import { runJob } from "@/lib/workers/pool";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
 import { AppError } from "./errors";
-import { formatSampleCode, IGSN_NOT_ACCEPTED, isUniqueViolation } from "./samples";
+import { formatCodeFromPattern } from "@/lib/validation/project";
+import { IGSN_NOT_ACCEPTED, isUniqueViolation } from "./samples";
 import { validateInput } from "./validate";
 
 /** Largest CSV accepted, characters (≈ 20 000 rows of a full register). */
@@ -151,19 +152,21 @@ export async function commitSampleImport(actor: Actor, projectId: string, raw: u
     return await db.transaction(async (tx) => {
       const needCodes = rows.filter((r) => !r.sample.code).length;
       let next = 0;
+      let pattern: string | null = null;
       if (needCodes > 0) {
         const [p] = await tx
           .update(projects)
           .set({ sampleSeq: sql`${projects.sampleSeq} + ${needCodes}` })
           .where(eq(projects.id, projectId))
-          .returning({ seq: projects.sampleSeq });
+          .returning({ seq: projects.sampleSeq, pattern: projects.sampleCodePattern });
         next = p.seq - needCodes + 1;
+        pattern = p.pattern;
       }
       const now = new Date().toISOString();
       const values = rows.map(({ sample: { planned, ...r }, stationCode }) => ({
         ...r,
         id: crypto.randomUUID(),
-        code: r.code ?? formatSampleCode(access.projectCode, next++),
+        code: r.code ?? formatCodeFromPattern(pattern, access.projectCode, next++),
         projectId,
         stationId: stationCode ? checked.stationIds.get(stationCode)! : null,
         // The status follows the events: a collection event per collected sample below.

@@ -2,6 +2,7 @@ import "server-only";
 import { and, asc, count, desc, eq, gte, lt, or, sql, type AnyColumn, type SQL } from "drizzle-orm";
 import { getDb } from "@/db";
 import { custodyEvents, projectMembers, projects, samples, stations } from "@/db/schema";
+import { formatCodeFromPattern } from "@/lib/validation/project";
 import { sampleCreateSchema, samplePatchSchema, type SampleListQuery } from "@/lib/validation/sample";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
@@ -11,9 +12,9 @@ import { validateInput } from "./validate";
 
 export type SampleRow = typeof samples.$inferSelect;
 
-/** Zero-padded code from the project prefix and sequence, e.g. APR-000042. */
+/** Zero-padded code from the project prefix and sequence, e.g. APR-000042 (the default pattern). */
 export function formatSampleCode(projectCode: string, seq: number): string {
-  return `${projectCode}-${String(seq).padStart(6, "0")}`;
+  return formatCodeFromPattern(null, projectCode, seq);
 }
 
 function escapeLike(s: string): string {
@@ -136,8 +137,8 @@ export async function createSample(actor: Actor, projectId: string, raw: unknown
           .update(projects)
           .set({ sampleSeq: sql`${projects.sampleSeq} + 1` })
           .where(eq(projects.id, projectId))
-          .returning({ seq: projects.sampleSeq });
-        code = formatSampleCode(access.projectCode, p.seq);
+          .returning({ seq: projects.sampleSeq, pattern: projects.sampleCodePattern });
+        code = formatCodeFromPattern(p.pattern, access.projectCode, p.seq);
       }
       const { planned, ...fields } = input;
       const status = planned ? ("planned" as const) : ("collected" as const);

@@ -11,12 +11,22 @@ import { PERMISSIONS, type Permission } from "@/lib/dal/permissions";
 import type { ProjectRole } from "@/db/schema";
 import { call, makeWorld, type World } from "../helpers/app";
 
-type Access = Permission | "public" | "signed-in" | "auth" | "reference.import:any";
+type Access = Permission | "public" | "signed-in" | "site-admin" | "auth" | "reference.import:any";
 
 /** METHOD path → who may call it. Paths as in app/api with [params]. */
 const ACCESS: Record<string, Access> = {
   "GET /api/auth/[...all]": "auth",
   "POST /api/auth/[...all]": "auth",
+  "GET /api/admin/users": "site-admin",
+  "POST /api/admin/users": "site-admin",
+  "PATCH /api/admin/users/[userId]": "site-admin",
+  "POST /api/admin/users/[userId]/sign-out": "site-admin",
+  "POST /api/admin/users/[userId]/password-reset": "site-admin",
+  "GET /api/password-links/[token]": "public",
+  "POST /api/password-links/[token]": "public",
+  "POST /api/projects": "site-admin",
+  "PATCH /api/projects/[projectId]": "project.manage",
+  "POST /api/projects/[projectId]/archive": "project.manage",
   "GET /api/health": "public",
   "GET /api/invitations/[token]": "public",
   "GET /api/lab/[token]": "public",
@@ -155,6 +165,14 @@ describe("every route × every caller", () => {
     expect(await ask(), "no session").toBe(401);
     if (access === "signed-in") {
       for (const who of [...ROLES, "outsider"] as const) expect([401, 403, 500], who).not.toContain(await ask(w.cookies[who]));
+      return;
+    }
+    if (access === "site-admin") {
+      for (const who of [...ROLES, "outsider"] as const) {
+        const st = await ask(w.cookies[who]);
+        if (who === "admin") expect([401, 403, 500], who).not.toContain(st);
+        else expect(st, who).toBe(403);
+      }
       return;
     }
     if (access === "reference.import:any") {

@@ -4,7 +4,7 @@ import { SampleForm } from "@/components/samples/sample-form";
 import { Card } from "@/components/ui/card";
 import { ROLE_LABELS, roleAllows } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
-import { formatSampleCode } from "@/lib/dal/samples";
+import { formatCodeFromPattern } from "@/lib/validation/project";
 import { currentActor, orNotFound } from "@/lib/dal/session";
 import { listStations } from "@/lib/dal/stations";
 
@@ -33,7 +33,7 @@ export default async function NewSamplePage({ params, searchParams }: { params: 
           <SampleForm
             projectId={projectId}
             stations={stations}
-            nextCode={formatSampleCode(project.code, project.sampleSeq + 1)}
+            nextCode={formatCodeFromPattern(project.sampleCodePattern, project.code, project.sampleSeq + 1)}
             defaults={{ stationId: preset, collectorName: actor.name }}
           />
         ) : (
