@@ -27,7 +27,14 @@ async function waitForServiceWorker(page: Page) {
 describe("offline capture on a phone", () => {
   test("station and sample saved offline, reload offline, sync once online: exactly one record of each on the server", async () => {
     mkdirSync(SHOTS, { recursive: true });
-    const ctx = await browser.newContext({ viewport: { width: 390, height: 844 }, deviceScaleFactor: 1, isMobile: true, hasTouch: true });
+    const ctx = await browser.newContext({
+      viewport: { width: 390, height: 844 },
+      deviceScaleFactor: 1,
+      isMobile: true,
+      hasTouch: true,
+      geolocation: { latitude: 37.741194, longitude: -6.621306, accuracy: 6 },
+      permissions: ["geolocation"],
+    });
     const page = await ctx.newPage();
     await blockExternalNetwork(page);
     await signInAs(page, "field");
@@ -35,10 +42,13 @@ describe("offline capture on a phone", () => {
     const base = `${baseUrl()}/projects/${projectId}`;
     await waitForServiceWorker(page);
     // One online visit of each field screen (the service worker keeps the last copy of each page).
-    for (const p of ["/map", "/samples/new", "/sync", ""]) {
+    for (const p of ["/map", "/samples/new", "/samples/quick", "/sync", ""]) {
       await page.goto(`${base}${p}`);
       await page.waitForLoadState("networkidle");
     }
+    await page.goto(`${base}/map`);
+    await page.waitForFunction(() => document.querySelectorAll("img.leaflet-tile-loaded").length >= 4, null, { timeout: 30_000 });
+    await page.screenshot({ path: `${SHOTS}/map-390.png` });
     const manifest = await page.request.get(`${baseUrl()}/manifest.webmanifest`);
     expect(manifest.ok()).toBe(true);
     expect((await manifest.json()).icons.length).toBeGreaterThanOrEqual(2);
@@ -50,7 +60,7 @@ describe("offline capture on a phone", () => {
     await expect.poll(() => page.getByRole("button", { name: "Place station" }).count(), { timeout: 30_000 }).toBe(1);
     await page.getByRole("button", { name: "Place station" }).click();
     const box = (await page.locator("#map").boundingBox())!;
-    await page.mouse.click(box.x + box.width * 0.4, box.y + box.height * 0.8);
+    await page.mouse.click(box.x + box.width * 0.35, box.y + Math.min(box.height * 0.6, 844 - 120 - box.y));
     await page.fill("#ns-name", "Offline outcrop E2E");
     await page.getByRole("button", { name: "Create station" }).click();
     await expect.poll(() => page.textContent("body")).toMatch(/saved on this device/);
@@ -62,10 +72,22 @@ describe("offline capture on a phone", () => {
     await page.waitForURL("**/sync", { timeout: 30_000 });
     await expect.poll(() => page.locator("[data-testid=outbox-item]").count(), { timeout: 30_000 }).toBe(2);
 
+    // Quick capture offline: device position with its accuracy, pick lists, the pre-printed tag.
+    await page.goto(`${base}/samples/quick`);
+    await page.getByRole("button", { name: "Use my location" }).click();
+    await expect.poll(() => page.textContent("[data-testid=qc-fix]")).toMatch(/37\.741194, -6\.621306 · ± 6 m/);
+    await page.getByRole("button", { name: "Soil", exact: true }).click();
+    await page.getByRole("button", { name: "gossan", exact: true }).click();
+    await page.fill("#qc-tag", "FT-E2E-0002");
+    await page.screenshot({ path: `${SHOTS}/quick-capture-offline-390.png`, fullPage: true });
+    await page.getByRole("button", { name: "Save on this device" }).click();
+    await page.waitForURL("**/sync", { timeout: 30_000 });
+    await expect.poll(() => page.locator("[data-testid=outbox-item]").count(), { timeout: 30_000 }).toBe(3);
+
     // Reload offline: the page opens and the records are still there, marked as not yet synced.
     await page.reload();
-    await expect.poll(() => page.locator("[data-testid=outbox-item]").count(), { timeout: 30_000 }).toBe(2);
-    expect(await page.getByText("not yet synced").count()).toBeGreaterThanOrEqual(2);
+    await expect.poll(() => page.locator("[data-testid=outbox-item]").count(), { timeout: 30_000 }).toBe(3);
+    expect(await page.getByText("not yet synced").count()).toBeGreaterThanOrEqual(3);
     await page.screenshot({ path: `${SHOTS}/sync-panel-offline-390.png`, fullPage: true });
 
     await ctx.setOffline(false);
@@ -77,8 +99,18 @@ describe("offline capture on a phone", () => {
     const samples = await (await page.request.get(`${baseUrl()}/api/projects/${projectId}/samples?code=FT-E2E-0001`)).json();
     expect(samples.total).toBe(1);
     expect(samples.items[0].code).toBe("FT-E2E-0001");
+    const quick = await (await page.request.get(`${baseUrl()}/api/projects/${projectId}/samples?code=FT-E2E-0002`)).json();
+    expect(quick.total).toBe(1);
+    const detail = await (await page.request.get(`${baseUrl()}/api/projects/${projectId}/samples/${quick.items[0].id}`)).json();
+    expect(detail).toMatchObject({ sampleType: "soil", lithology: "gossan", locationSource: "device_gnss", horizontalAccuracyM: 6, lat: 37.741194, lon: -6.621306 });
     const stations = await (await page.request.get(`${baseUrl()}/api/projects/${projectId}/stations?q=Offline%20outcrop%20E2E`)).json();
     expect(stations.total).toBe(1);
+
+    // The register as cards on a phone.
+    await page.goto(`${base}/samples?code=FT-E2E`);
+    await expect.poll(() => page.locator("[data-testid=register-cards] li").count(), { timeout: 30_000 }).toBe(2);
+    expect(await page.locator("table").isVisible()).toBe(false);
+    await page.screenshot({ path: `${SHOTS}/register-cards-390.png`, fullPage: true });
     await ctx.close();
   });
 });
