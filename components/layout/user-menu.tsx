@@ -3,6 +3,7 @@
 import { useRouter } from "next/navigation";
 import { useEffect, useRef, useState } from "react";
 import { authClient } from "@/lib/auth-client";
+import { clearPrivateCaches } from "@/lib/client/offline-cache";
 
 /** Name, e-mail and the role in the current project; sign-out. */
 export function UserMenu({ name, email, roleLabel, isAdmin }: { name: string; email: string; roleLabel?: string; isAdmin?: boolean }) {
@@ -51,6 +52,7 @@ export function UserMenu({ name, email, roleLabel, isAdmin }: { name: string; em
             className="w-full rounded px-2 py-1.5 text-left text-sm hover:bg-stone"
             onClick={async () => {
               await authClient.signOut();
+              await clearPrivateCaches();
               router.push("/sign-in");
               router.refresh();
             }}
