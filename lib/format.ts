@@ -1,3 +1,4 @@
+import { formatDateTime, formatLocalDate } from "@/lib/dates";
 import type { SampleStatus, SampleType } from "@/lib/vocabulary";
 
 export const SAMPLE_TYPE_LABELS: Record<SampleType, string> = {
@@ -26,19 +27,14 @@ export const SAMPLE_STATUS_LABELS: Record<SampleStatus, string> = {
   discarded: "Discarded",
 };
 
-/** "2026-03-14 10:05 (Europe/Madrid)" in the site's zone when known, else UTC. */
-export function formatCollected(iso: string | null | undefined, tz?: string | null): string {
-  if (!iso) return "—";
-  const d = new Date(iso);
-  if (Number.isNaN(d.getTime())) return iso;
-  const zone = tz || "UTC";
-  const parts = new Intl.DateTimeFormat("en-CA", { timeZone: zone, year: "numeric", month: "2-digit", day: "2-digit", hour: "2-digit", minute: "2-digit", hourCycle: "h23" }).formatToParts(d);
-  const get = (t: string) => parts.find((p) => p.type === t)?.value ?? "";
-  return `${get("year")}-${get("month")}-${get("day")} ${get("hour")}:${get("minute")} (${zone})`;
+/** "2026-03-14 10:05 CET" in the collection site's zone when known, else the project's (else UTC): lib/dates.ts. */
+export function formatCollected(iso: string | null | undefined, tz?: string | null, projectZone?: string | null): string {
+  return formatDateTime(iso, tz || projectZone);
 }
 
-export function formatDate(iso: string | null | undefined): string {
-  return iso ? iso.slice(0, 10) : "—";
+/** The local calendar date of an instant (collection site's zone, else the project's, else UTC). */
+export function formatDate(iso: string | null | undefined, tz?: string | null): string {
+  return formatLocalDate(iso, tz);
 }
 
 /** Decimal degrees with 6 decimals and hemisphere letters. */

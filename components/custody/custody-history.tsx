@@ -10,7 +10,7 @@ import { SampleCustodyActions } from "./sample-custody-actions";
 /** Chain of custody of one sample (server component): who held it, when, where, with seal and condition. */
 export async function CustodyHistory({ projectId, sampleId }: { projectId: string; sampleId: string }) {
   const actor = await currentActor();
-  const { sample, events, intakeFlags, actions } = await listSampleCustody(actor, projectId, sampleId);
+  const { sample, events, intakeFlags, actions, timeZone } = await listSampleCustody(actor, projectId, sampleId);
   return (
     <Card>
       <h2 className="mb-2 font-semibold">Chain of custody</h2>
@@ -37,7 +37,7 @@ export async function CustodyHistory({ projectId, sampleId }: { projectId: strin
               <p>
                 <span className="font-medium">{CUSTODY_EVENT_LABELS[e.event as CustodyEvent]}</span>
                 {e.condition && e.condition !== "received" && <span className="text-danger"> · {e.condition}</span>}
-                <span className="text-muted"> · {formatInstant(e.occurredAt)}</span>
+                <span className="text-muted"> · {formatInstant(e.occurredAt, timeZone)}</span>
               </p>
               <p className="text-muted">
                 {[
@@ -53,7 +53,7 @@ export async function CustodyHistory({ projectId, sampleId }: { projectId: strin
                 {e.submissionId && e.submissionCode && (
                   <>
                     {" · "}
-                    <Link className="text-brand hover:underline" href={`/projects/${projectId}/submissions/${e.submissionId}`}>
+                    <Link className="text-brand underline underline-offset-2" href={`/projects/${projectId}/submissions/${e.submissionId}`}>
                       {e.submissionCode}
                     </Link>
                   </>

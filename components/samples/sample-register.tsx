@@ -22,6 +22,7 @@ export interface SampleListItem {
   alteration: string | null;
   status: keyof typeof SAMPLE_STATUS_LABELS;
   collectedAt: string | null;
+  collectedTz?: string | null;
   collectorName: string | null;
   lat: number | null;
   lon: number | null;
@@ -94,7 +95,7 @@ export function SampleRegister({ projectId, children }: { projectId: string; chi
       { accessorKey: "sampleType", header: "Type", cell: ({ row }) => SAMPLE_TYPE_LABELS[row.original.sampleType] },
       { accessorKey: "lithology", header: "Lithology", cell: ({ getValue }) => getValue<string>() ?? "—" },
       { accessorKey: "alteration", header: "Alteration", cell: ({ getValue }) => getValue<string>() ?? "—" },
-      { accessorKey: "collectedAt", header: "Collected", cell: ({ row }) => formatDate(row.original.collectedAt) },
+      { accessorKey: "collectedAt", header: "Collected", cell: ({ row }) => formatDate(row.original.collectedAt, row.original.collectedTz) },
       { accessorKey: "collectorName", header: "Collector", cell: ({ getValue }) => getValue<string>() ?? "—" },
       {
         accessorKey: "status",
@@ -215,7 +216,7 @@ export function SampleRegister({ projectId, children }: { projectId: string; chi
                   </p>
                   <p className="text-xs text-muted">
                     {s.stationCode ? `${s.stationCode} · ` : ""}
-                    {formatDate(s.collectedAt)}
+                    {formatDate(s.collectedAt, s.collectedTz)}
                     {s.collectorName ? ` · ${s.collectorName}` : ""}
                   </p>
                   {s.suspectedAsbestos && <Badge tone="danger">Suspected asbestos</Badge>}

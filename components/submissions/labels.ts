@@ -1,3 +1,4 @@
+import { formatDateTime } from "@/lib/dates";
 import type { IntakeCondition } from "@/lib/validation/submission";
 import type { CustodyEvent } from "@/lib/validation/custody";
 import { PRIORITIES, SUBMISSION_STATUSES } from "@/lib/vocabulary";
@@ -32,10 +33,7 @@ export const CUSTODY_EVENT_LABELS: Record<CustodyEvent, string> = {
   transferred: "Handed over",
 };
 
-/** "2026-03-20 08:00 UTC" from an ISO instant or a Date. */
-export function formatInstant(v: string | Date | null | undefined): string {
-  if (!v) return "—";
-  const d = typeof v === "string" ? new Date(v) : v;
-  if (Number.isNaN(d.getTime())) return String(v);
-  return `${d.toISOString().slice(0, 16).replace("T", " ")} UTC`;
+/** "2026-03-20 09:00 CET": an instant in the project's zone (UTC when none), through the app's one formatter (lib/dates.ts). */
+export function formatInstant(v: string | Date | null | undefined, zone?: string | null): string {
+  return formatDateTime(v, zone);
 }

@@ -9,6 +9,7 @@ import { and, eq } from "drizzle-orm";
 import { getDb } from "@/db";
 import { referencePhases } from "@/db/schema";
 import { fitFieldsOf, LIBRARY_PHASES, type LibraryPhase } from "@/lib/science/minerals";
+import { hermannMauguin, mineralFormula } from "@/lib/science/minerals/notation";
 import type { PhaseFitData } from "@/lib/science/types";
 
 type ReferenceInsert = typeof referencePhases.$inferInsert;
@@ -18,10 +19,10 @@ export function libraryPhaseRow(phase: LibraryPhase, root = process.cwd()): Refe
   const typed = phase.hazards.find((h): h is "asbestos" | "crystalline_silica" => h === "asbestos" || h === "crystalline_silica");
   return {
     mineral: phase.mineral,
-    formula: phase.formula,
+    formula: mineralFormula(phase.mineral, phase.formula),
     mineralGroup: phase.group,
     crystalSystem: phase.crystalSystem,
-    spaceGroup: phase.spaceGroup ?? (phase.spaceGroupNumber ? `No. ${phase.spaceGroupNumber}` : "unknown"),
+    spaceGroup: phase.spaceGroup ? hermannMauguin(phase.spaceGroup) : phase.spaceGroupNumber ? `No. ${phase.spaceGroupNumber}` : "unknown",
     cellA: phase.cell.a,
     cellB: phase.cell.b,
     cellC: phase.cell.c,

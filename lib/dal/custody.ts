@@ -125,7 +125,7 @@ export async function listSampleCustody(actor: Actor, projectId: string, sampleI
   const db = getDb();
   const [sample] = await db.select({ id: samples.id, code: samples.code, status: samples.status }).from(samples).where(and(eq(samples.id, sampleId), eq(samples.projectId, projectId)));
   if (!sample) throw notFound("Sample not found.");
-  const [project] = await db.select({ labInHouse: projects.labInHouse }).from(projects).where(eq(projects.id, projectId));
+  const [project] = await db.select({ labInHouse: projects.labInHouse, timeZone: projects.timeZone }).from(projects).where(eq(projects.id, projectId));
   const can = (p: Permission) => actor.isAdmin || roleAllows(access.role, p);
   /** What the viewer may record on this sample outside a submission. */
   const actions = {
@@ -148,6 +148,7 @@ export async function listSampleCustody(actor: Actor, projectId: string, sampleI
   return {
     sample,
     actions,
+    timeZone: project?.timeZone ?? null,
     events: events.map((e) => ({ ...e.event, submissionCode: e.submissionCode })),
     intakeFlags: intake,
   };

@@ -5,6 +5,7 @@ import { and, asc, count, eq, inArray, or, sql, type SQL } from "drizzle-orm";
 import { getDb } from "@/db";
 import { projectMembers, referencePhases, user } from "@/db/schema";
 import { invalidateReferenceLibrary, type StoredLine } from "@/lib/jobs";
+import { formulaSearchKey, hermannMauguin, mineralFormula } from "@/lib/science/minerals/notation";
 import { ANODE_WAVELENGTHS } from "@/lib/science/anodes";
 import type { CifStructure } from "@/lib/science/crystal";
 import { findLibraryPhase } from "@/lib/science/minerals";
@@ -65,7 +66,17 @@ export async function listReferencePhases(actor: Actor, raw: unknown) {
   const parts: (SQL | undefined)[] = [];
   if (q.q) {
     const v = `%${q.q.toLowerCase().replace(/[\\%_]/g, (c) => `\\${c}`)}%`;
-    parts.push(or(sql`lower(${referencePhases.mineral}) LIKE ${v} ESCAPE '\\'`, sql`lower(${referencePhases.formula}) LIKE ${v} ESCAPE '\\'`, sql`lower(coalesce(${referencePhases.mineralGroup}, '')) LIKE ${v} ESCAPE '\\'`));
+    // A formula matches however it is spaced or bracketed: "FeS2", "Fe S2" and "fes2" agree (formulaSearchKey).
+    const key = formulaSearchKey(q.q).replace(/[\\%_]/g, (c) => `\\${c}`);
+    const formulaKey = sql`replace(replace(replace(replace(replace(lower(${referencePhases.formula}), ' ', ''), '(', ''), ')', ''), '·', ''), ',', '')`;
+    parts.push(
+      or(
+        sql`lower(${referencePhases.mineral}) LIKE ${v} ESCAPE '\\'`,
+        sql`lower(${referencePhases.formula}) LIKE ${v} ESCAPE '\\'`,
+        key ? sql`${formulaKey} LIKE ${`%${key}%`} ESCAPE '\\'` : undefined,
+        sql`lower(coalesce(${referencePhases.mineralGroup}, '')) LIKE ${v} ESCAPE '\\'`,
+      ),
+    );
   }
   if (q.hazard) parts.push(eq(referencePhases.hazard, q.hazard));
   if (q.element) parts.push(sql`(',' || ${referencePhases.elements} || ',') LIKE ${`%,${q.element},%`}`);
@@ -268,7 +279,8 @@ export async function importReferenceCifs(actor: Actor, files: { name: string; b
       errors.push({ fileName: file.name, message: `${mineral} with a = ${a} Å is already in the library (imported earlier).`, code: "duplicate" });
       continue;
     }
-    const formula = (structure.formulaSum ?? "").replace(/\s+/g, " ").trim() || [...new Set(structure.sites.map((s) => s.element))].sort().join(" ");
+    // Shown in mineral notation when the mineral is known, else the CIF sum compacted (hydrogen kept).
+    const formula = mineralFormula(mineral, (structure.formulaSum ?? "").replace(/\s+/g, " ").trim() || [...new Set(structure.sites.map((s) => s.element))].sort().join(" "));
     const row = await db.transaction(async (tx) => {
       const [r] = await tx
         .insert(referencePhases)
@@ -277,7 +289,7 @@ export async function importReferenceCifs(actor: Actor, files: { name: string; b
           formula,
           mineralGroup: meta.group ?? null,
           crystalSystem: crystalSystemOf(structure),
-          spaceGroup: structure.spaceGroup.name ?? (structure.spaceGroup.number ? `No. ${structure.spaceGroup.number}` : "P 1 (from operators)"),
+          spaceGroup: structure.spaceGroup.name ? hermannMauguin(structure.spaceGroup.name) : structure.spaceGroup.number ? `No. ${structure.spaceGroup.number}` : "P1 (from operators)",
           cellA: a,
           cellB: b,
           cellC: c,

@@ -60,7 +60,7 @@ export async function prepareRegisterExport(actor: Actor, projectId: string, raw
 export async function registerExportFor(projectId: string, filter: RegisterFilter, source: RegisterExport["source"]): Promise<RegisterExport> {
   const db = getDb();
   const [project] = await db
-    .select({ id: projects.id, code: projects.code, name: projects.name, region: projects.region, description: projects.description })
+    .select({ id: projects.id, code: projects.code, name: projects.name, region: projects.region, description: projects.description, timeZone: projects.timeZone })
     .from(projects)
     .where(eq(projects.id, projectId));
   const where = registerWhere(projectId, filter);

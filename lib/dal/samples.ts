@@ -68,6 +68,7 @@ export const sampleListColumns = {
   alteration: samples.alteration,
   status: samples.status,
   collectedAt: samples.collectedAt,
+  collectedTz: samples.collectedTz,
   collectorName: samples.collectorName,
   lat: samples.lat,
   lon: samples.lon,

@@ -9,6 +9,7 @@ import path from "node:path";
 import type { PassThrough } from "node:stream";
 import PDFDocument from "pdfkit";
 import sharp, { type OverlayOptions } from "sharp";
+import { formatDateTime, formatLocalDate } from "@/lib/dates";
 import { phaseGlyphSvg, phaseSymbol } from "@/lib/phase-map";
 import { ASBESTOS_CAVEAT, CONFIRMED_VS_CANDIDATE, IDENTIFICATION_CAVEAT, SILICA_CAVEAT, isAsbestiform } from "./caveats";
 import { describeFilter } from "./filter-text";
@@ -146,7 +147,7 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
   // Title and summary.
   doc.font(c.bold).fontSize(18).fillColor("#1F2933").text(c.t(`${exp.project.name}`), MARGIN, MARGIN);
   doc.font(c.regular).fontSize(10).fillColor("#52606D").text(c.t(`Sample register report · ${exp.project.code}${exp.project.region ? ` · ${exp.project.region}` : ""}`));
-  doc.text(c.t(`Generated ${exp.generatedAt.toISOString().replace("T", " ").slice(0, 16)} UTC · ${exp.source.kind === "member" ? `exported by ${exp.source.name}` : `read-only link${exp.source.label ? ` "${exp.source.label}"` : ""}`}`));
+  doc.text(c.t(`Generated ${formatDateTime(exp.generatedAt, exp.project.timeZone)} · ${exp.source.kind === "member" ? `exported by ${exp.source.name}` : `read-only link${exp.source.label ? ` "${exp.source.label}"` : ""}`}`));
   doc.text(c.t(`Filter: ${describeFilter(exp.filter)}`));
   if (exp.project.description) para(c, exp.project.description);
   heading(c, "Summary");
@@ -201,13 +202,13 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
       for (const r of page as ExportRow[]) {
         if (listed >= PDF_MAX_ROWS) break;
         listed++;
-        rows.push([r.code, r.stationCode ?? "—", r.sampleType.replace(/_/g, " "), r.lithology ?? "—", r.collectedAt ? r.collectedAt.slice(0, 10) : "—", phaseNames(r.confirmed) || "—", phaseNames(r.candidates) || "—"]);
+        rows.push([r.code, r.stationCode ?? "—", r.sampleType.replace(/_/g, " "), r.lithology ?? "—", r.collectedAt ? formatLocalDate(r.collectedAt, r.collectedTz ?? exp.project.timeZone) : "—", phaseNames(r.confirmed) || "—", phaseNames(r.candidates) || "—"]);
       }
       yield rows;
       if (listed >= PDF_MAX_ROWS) return;
     }
   }
-  await table(c, ["Code", "Station", "Type", "Lithology", "Collected", "Confirmed phases (wt%)", "Candidates (unconfirmed)"], [1.25, 1.1, 0.9, 1, 0.85, 2.1, 1.6], registerRows(), 7.5, () => drained(out));
+  await table(c, ["Code", "Station", "Type", "Lithology", "Collected (local date)", "Confirmed phases (wt%)", "Candidates (unconfirmed)"], [1.25, 1.1, 0.9, 1, 0.85, 2.1, 1.6], registerRows(), 7.5, () => drained(out));
   if (t.samples > listed) para(c, `The table lists the first ${listed} of ${t.samples} samples; the CSV and XLSX exports hold every row.`);
 
   // Methods.

@@ -67,7 +67,7 @@ export interface RegisterReportData {
 }
 
 export interface RegisterExport {
-  project: { id: string; code: string; name: string; region: string | null; description: string | null };
+  project: { id: string; code: string; name: string; region: string | null; description: string | null; /** IANA zone for local dates (null = UTC). */ timeZone?: string | null };
   filter: RegisterFilter;
   generatedAt: Date;
   /** Who the export is for: a signed-in member, or the holder of a share link. */

@@ -91,11 +91,11 @@ export default async function SubmissionPage({ params }: { params: Promise<{ pro
         <Card>
           <h2 className="mb-2 font-semibold">Shipment and receipt</h2>
           <dl>
-            <Row label="Sent">{d.sentAt ? formatInstant(d.sentAt) : null}</Row>
+            <Row label="Sent">{d.sentAt ? formatInstant(d.sentAt, d.project.timeZone) : null}</Row>
             <Row label="Waybill">{d.waybill}</Row>
-            <Row label="Received">{d.receivedAt ? formatInstant(d.receivedAt) : null}</Row>
+            <Row label="Received">{d.receivedAt ? formatInstant(d.receivedAt, d.project.timeZone) : null}</Row>
             <Row label="Lab batch">{d.labReference}</Row>
-            <Row label="Signed off">{d.reportedAt ? formatInstant(d.reportedAt) : null}</Row>
+            <Row label="Signed off">{d.reportedAt ? formatInstant(d.reportedAt, d.project.timeZone) : null}</Row>
           </dl>
         </Card>
       </div>
@@ -175,7 +175,7 @@ export default async function SubmissionPage({ params }: { params: Promise<{ pro
               <tbody>
                 {groupEvents(d.events, codeOf).map((g) => (
                   <tr key={g.key} className="border-t border-line align-top">
-                    <td className="whitespace-nowrap py-1.5 pr-3">{formatInstant(g.e.occurredAt)}</td>
+                    <td className="whitespace-nowrap py-1.5 pr-3">{formatInstant(g.e.occurredAt, d.project.timeZone)}</td>
                     <td className="py-1.5 pr-3">{g.codes.join(", ")}</td>
                     <td className="py-1.5 pr-3">
                       {CUSTODY_EVENT_LABELS[g.e.event as CustodyEvent]}
