@@ -4,7 +4,7 @@ import { useEffect, useState } from "react";
 import { ConflictPanel, type ConflictField } from "@/components/stations/conflict-panel";
 import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
-import { discard, keepMine, requeue, syncProject, watchOutbox, type OutboxItem } from "@/lib/client/outbox";
+import { discard, keepMine, requeue, setOutboxUser, syncProject, watchOutbox, type OutboxItem } from "@/lib/client/outbox";
 import { useOutbox } from "./use-outbox";
 
 const FIELDS: ConflictField[] = [
@@ -27,7 +27,7 @@ const STATE_LABEL: Record<OutboxItem["state"], string> = { queued: "queued", sen
 const TONE = { queued: "brand", sending: "brand", failed: "danger", conflict: "oxide" } as const;
 
 /** The outbox of one project: what is waiting on this device, what failed and why, conflicts side by side, last sync. */
-export function SyncPanel({ projectId }: { projectId: string }) {
+export function SyncPanel({ projectId, userId }: { projectId: string; userId: string }) {
   const { items, meta, online } = useOutbox(projectId);
   const [busy, setBusy] = useState(false);
   const count = (s: OutboxItem["state"]) => items.filter((i) => i.state === s).length;
@@ -73,6 +73,7 @@ export function SyncPanel({ projectId }: { projectId: string }) {
                   {item.attempts > 0 ? ` · ${item.attempts} attempt${item.attempts > 1 ? "s" : ""}` : ""}
                 </span>
               </div>
+              {item.userId && item.userId !== userId && <p className="mt-1 text-sm text-muted">Saved on this device by another account; it is sent when that account signs in here.</p>}
               {item.lastError && item.state !== "conflict" && <p className="mt-1 text-sm text-danger">Why: {item.lastError}</p>}
               {item.state === "failed" && (
                 <div className="mt-2 flex gap-2">
@@ -98,8 +99,9 @@ export function SyncPanel({ projectId }: { projectId: string }) {
 }
 
 /** Sends the outbox when the connection returns, and every minute while online. Mounted once in the project shell. */
-export function OutboxAutoSync({ projectId }: { projectId: string }) {
+export function OutboxAutoSync({ projectId, userId }: { projectId: string; userId: string }) {
   useEffect(() => {
+    setOutboxUser(userId);
     const run = () => {
       if (!navigator.onLine) return;
       void syncProject(projectId).catch(() => undefined);
@@ -112,7 +114,7 @@ export function OutboxAutoSync({ projectId }: { projectId: string }) {
       window.removeEventListener("online", run);
       window.clearInterval(t);
     };
-  }, [projectId]);
+  }, [projectId, userId]);
   return null;
 }
 

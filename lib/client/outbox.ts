@@ -32,6 +32,8 @@ export interface OutboxItem {
   /** The server's record when an edit met a newer version (409). */
   serverRecord: Record<string, unknown> | null;
   createdAt: number;
+  /** The account that saved it on this device; only that account's session sends it. */
+  userId: string | null;
 }
 
 interface SyncMeta {
@@ -56,6 +58,13 @@ function outboxDb(): OutboxDb {
 }
 
 export const newClientId = (): string => uuidv7();
+
+let currentUserId: string | null = null;
+
+/** The signed-in account (set by the project shell); items saved by another account on this device are not sent with this session. */
+export function setOutboxUser(userId: string | null): void {
+  currentUserId = userId;
+}
 
 const path = (item: Pick<OutboxItem, "projectId" | "kind" | "action" | "recordId">) =>
   `/api/projects/${item.projectId}/${item.kind === "station" ? "stations" : "samples"}${item.action === "update" ? `/${item.recordId}` : ""}`;
@@ -87,6 +96,7 @@ export async function enqueue(item: Pick<OutboxItem, "projectId" | "kind" | "act
       lastError: null,
       serverRecord: null,
       createdAt: Date.now(),
+      userId: currentUserId,
     };
     await d.items.put(row);
     return row;
@@ -155,6 +165,7 @@ export function syncProject(projectId: string, opts: { force?: boolean; fetchImp
       let problems = 0;
       for (const item of items) {
         if (item.state === "conflict" || item.state === "failed") continue;
+        if (item.userId && item.userId !== currentUserId) continue; // another account's work waits for that account
         if (item.state === "queued" && !opts.force && item.nextAttemptAt > Date.now()) continue;
         const r = await sendItem(item, opts.fetchImpl);
         if (r === "done") sent++;

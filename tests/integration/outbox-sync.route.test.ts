@@ -14,7 +14,7 @@ import { PATCH as patchStationRoute } from "@/app/api/projects/[projectId]/stati
 import { POST as createStationRoute } from "@/app/api/projects/[projectId]/stations/route";
 import { getDb } from "@/db";
 import { samples, stations } from "@/db/schema";
-import { discard, enqueue, keepMine, listOutbox, newClientId, syncProject } from "@/lib/client/outbox";
+import { discard, enqueue, keepMine, listOutbox, newClientId, setOutboxUser, syncProject } from "@/lib/client/outbox";
 import { call, makeWorld, type World } from "../helpers/app";
 
 let w: World;
@@ -136,5 +136,22 @@ describe("offline outbox against the real API", () => {
     expect(log).toEqual(["POST samples 201"]);
     const [row] = await getDb().select().from(samples).where(eq(samples.id, id));
     expect(row.lithology).toBe("sandy loam");
+  });
+
+  test("work saved on a shared device by one account is not sent with another account's session", async () => {
+    const log: string[] = [];
+    const fetchImpl = network(() => "online", log);
+    const id = newClientId();
+    setOutboxUser("account-a");
+    await enqueue({ projectId: w.projectId, kind: "sample", action: "create", recordId: id, opId: id, label: "A's sample", body: { sampleType: "soil" } });
+    setOutboxUser("account-b");
+    await syncProject(w.projectId, { force: true, fetchImpl });
+    expect(log).toEqual([]);
+    expect((await listOutbox(w.projectId))[0].userId).toBe("account-a");
+    setOutboxUser("account-a");
+    await syncProject(w.projectId, { force: true, fetchImpl });
+    expect(log).toEqual(["POST samples 201"]);
+    expect(await countById(samples, id)).toBe(1);
+    setOutboxUser(null);
   });
 });

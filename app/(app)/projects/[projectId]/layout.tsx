@@ -20,9 +20,11 @@ export default async function ProjectLayout({ children, params }: { children: Re
         </span>
         <OutboxBadge projectId={projectId} />
       </AppHeader>
-      <OutboxAutoSync projectId={projectId} />
+      <OutboxAutoSync projectId={projectId} userId={actor.userId} />
       <ProjectNav items={items} />
-      <div className="mx-auto max-w-7xl px-4 pb-24 pt-6 md:py-6">{children}</div>
+      <main id="main" className="mx-auto max-w-7xl px-4 pb-24 pt-6 md:py-6">
+        {children}
+      </main>
       <BottomNav projectId={projectId} canWrite={roleAllows(project.role, "sample.write")} />
     </>
   );

@@ -18,7 +18,7 @@ export default async function SyncPage({ params }: { params: Promise<{ projectId
         changed meanwhile is shown side by side for you to choose; nothing is overwritten silently.
       </p>
       <Card>
-        <SyncPanel projectId={projectId} />
+        <SyncPanel projectId={projectId} userId={actor.userId} />
       </Card>
     </div>
   );
