@@ -21,8 +21,8 @@ const nextConfig = {
   },
   // A separate build folder lets browser tests build beside a running dev server.
   distDir: process.env.NEXT_DIST_DIR || ".next",
-  // Types are checked by `npm run typecheck` (CI runs it); the build does not repeat it.
-  typescript: { ignoreBuildErrors: true },
+  // The build type-checks too (CI also runs `npm run typecheck`).
+  typescript: { ignoreBuildErrors: false },
 };
 
 export default nextConfig;

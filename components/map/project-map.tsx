@@ -297,11 +297,11 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
               .sort((a, b) => a.code.localeCompare(b.code))
               .map((s: MapStation) => (
                 <li key={s.id} className="flex items-center justify-between gap-2">
-                  <Link href={`/projects/${projectId}/stations/${s.id}`} prefetch={false} className="truncate text-brand hover:underline">
+                  <Link href={`/projects/${projectId}/stations/${s.id}`} prefetch={false} className="inline-block min-h-6 truncate py-0.5 text-brand hover:underline">
                     {s.code}
                     {s.name ? ` — ${s.name}` : ""}
                   </Link>
-                  <button type="button" className="shrink-0 text-xs text-muted hover:text-ink" onClick={() => mapRef.current?.flyTo([s.lat, s.lon], Math.max(mapRef.current.getZoom(), 17))} aria-label={`Show ${s.code} on the map`}>
+                  <button type="button" className="min-h-6 shrink-0 px-1.5 text-xs text-muted hover:text-ink" onClick={() => mapRef.current?.flyTo([s.lat, s.lon], Math.max(mapRef.current.getZoom(), 17))} aria-label={`Locate ${s.code} on the map`}>
                     Locate
                   </button>
                 </li>

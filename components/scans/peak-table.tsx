@@ -24,7 +24,8 @@ export function PeakTable({ peaks, unexplained, wavelength }: { peaks: PeakRow[]
           </select>
         </label>
       </div>
-      <div className="max-h-96 overflow-auto rounded-md border border-line">
+      {/* A scrolling region is focusable so keyboard users can scroll it (WCAG 2.1.1); it is the diffractogram's text alternative. */}
+      <div className="max-h-96 overflow-auto rounded-md border border-line" tabIndex={0} role="region" aria-label="Peak table (scrolls)">
         <table className="w-full text-sm tabular-nums" data-testid="peak-table">
           <caption className="sr-only">Fitted peaks</caption>
           <thead className="sticky top-0 bg-stone text-xs text-muted">

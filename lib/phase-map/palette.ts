@@ -51,5 +51,7 @@ export function contrastRatio(a: string, b: string): number {
 
 /** Black-ish ink or white, whichever reads better on `fill` (larger WCAG contrast). */
 export function labelColourOn(fill: string): string {
-  return contrastRatio(fill, INK) >= contrastRatio(fill, "#FFFFFF") ? INK : "#FFFFFF";
+  const best = contrastRatio(fill, INK) >= contrastRatio(fill, "#FFFFFF") ? INK : "#FFFFFF";
+  // Mid-tone fills reach WCAG 2.2 SC 1.4.3's 4.5:1 for small text with neither ink nor white: use black there.
+  return contrastRatio(fill, best) >= 4.5 ? best : contrastRatio(fill, "#000000") > contrastRatio(fill, best) ? "#000000" : best;
 }

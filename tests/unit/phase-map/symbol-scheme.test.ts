@@ -23,6 +23,10 @@ describe("palette", () => {
     // WCAG 2.1 SC 1.4.3: 3:1 for large text (≥ 14 pt bold); our map labels are short bold symbols.
     for (const { colour } of Object.values(MINERAL_CLASSES)) expect(contrastRatio(colour, labelColourOn(colour))).toBeGreaterThanOrEqual(3);
   });
+
+  test("the label on every class colour reaches 4.5:1 for small text (WCAG 2.2 SC 1.4.3; phase chips are 12 px)", () => {
+    for (const { colour } of Object.values(MINERAL_CLASSES)) expect(contrastRatio(colour, labelColourOn(colour)), colour).toBeGreaterThanOrEqual(4.5);
+  });
 });
 
 describe("symbol scheme", () => {
