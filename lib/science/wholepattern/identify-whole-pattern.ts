@@ -302,7 +302,6 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
     return found
       .filter((r) => usable(library[r]))
       .map(candidate)
-      .filter((c) => c.lines.count > 0 && c.coverage >= 0.4);
   };
   let shortlist: Candidate[];
   /** Where look-alikes are sought: the shortlist, or for the analyst's own phases the look-up's candidates. */
@@ -413,19 +412,34 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
   for (let k = 0; k < fit.phases.length; k++) {
     const inFit = new Set(fit.phases.map((p) => p.lines.ref.id));
     const self = fit.phases[k];
-    // A look-alike must look alike both ways: its strong lines on this phase's, and this phase's on its own.
+    // A look-alike is a member of the same series, or looks alike both ways: its strong lines on this phase's, and
+    // this phase's on its own.
     const others = alikePool
-      .filter((c) => !inFit.has(c.ref.id) && sharesLines(c.lines, self.lines, self.params.cellScale) && sharesLines(self.lines, c.lines, 1 / self.params.cellScale))
+      .filter(
+        (c) =>
+          !inFit.has(c.ref.id) &&
+          ((seriesOf(c.ref.mineral) !== undefined && seriesOf(c.ref.mineral) === seriesOf(self.lines.ref.mineral)) ||
+            (sharesLines(c.lines, self.lines, self.params.cellScale) && sharesLines(self.lines, c.lines, 1 / self.params.cellScale))),
+      )
       .slice(0, MAX_LOOKALIKES);
     if (others.length === 0) continue;
     const score = (ev: FitEvaluation, j: number) => nEff * Math.log(Math.max(ev.chi2, 1e-300)) + ((ev.phases[j].params.cellScale - 1) / CELL_PRIOR) ** 2;
     const ownScore = score(fit, k);
     const trials = others.map((c) => {
       const cellScale = self.params.cellScale * (self.lines.d[0] && c.lines.count ? bestRatio(c.lines, self.lines) : 1);
-      const swapped = fit.phases.map((p, j) => (j === k ? { lines: c.lines, params: { ...self.params, cellScale: Math.min(1.015, Math.max(0.985, cellScale)), marchR: c.lines.cosAlpha ? (self.params.marchR ?? 1) : null } } : p));
-      // One profile first: a look-alike far worse before refinement is not refined.
-      const first = evaluateFit(data, swapped, fit.global, undefined, { renders: fit.renders, except: k });
-      if (score(first, k) - ownScore > LOOKALIKE_PRESCREEN * minDeltaBic) return { c, ev: first, s: score(first, k) };
+      // Start from this phase's width and from the candidate's own; a look-alike far worse than the phase before
+      // refinement is not refined.
+      const starts = [self.params.widthFactor, c.ref.broadening ?? 1].map((widthFactor) => {
+        const swapped = fit.phases.map((p, j) =>
+          j === k ? { lines: c.lines, params: { cellScale: Math.min(1.015, Math.max(0.985, cellScale)), widthFactor, marchR: c.lines.cosAlpha ? (self.params.marchR ?? 1) : null } } : p,
+        );
+        const ev = evaluateFit(data, swapped, fit.global, undefined, { renders: fit.renders, except: k });
+        return { swapped, ev, s: score(ev, k) };
+      });
+      const start = starts[0].s <= starts[1].s ? starts[0] : starts[1];
+      const first = start.ev;
+      const swapped = start.swapped;
+      if (start.s - ownScore > LOOKALIKE_PRESCREEN * minDeltaBic) return { c, ev: first, s: start.s };
       const ev = refineFit(data, swapped, fit.global, { maxIterations: 8, only: k, frozen: fit });
       return { c, ev, s: score(ev, k) };
     });
