@@ -414,14 +414,19 @@ export function identifyWholePattern(processed: ProcessedScan, library: readonly
     const self = fit.phases[k];
     // A look-alike is a member of the same series, or looks alike both ways: its strong lines on this phase's, and
     // this phase's on its own.
-    const others = alikePool
-      .filter(
-        (c) =>
-          !inFit.has(c.ref.id) &&
-          ((seriesOf(c.ref.mineral) !== undefined && seriesOf(c.ref.mineral) === seriesOf(self.lines.ref.mineral)) ||
-            (sharesLines(c.lines, self.lines, self.params.cellScale) && sharesLines(self.lines, c.lines, 1 / self.params.cellScale))),
-      )
-      .slice(0, MAX_LOOKALIKES);
+    const series = seriesOf(self.lines.ref.mineral);
+    const members = series
+      ? library.flatMap((r, index) => (series.members.includes(r.mineral) && !inFit.has(r.id) && usable(r) ? [index] : []))
+      : [];
+    const pooled = new Set(alikePool.map((c) => c.index));
+    const others = [
+      // Members of the same series, from the whole library (the look-up may have missed one whose lines crowd).
+      ...alikePool.filter((c) => members.includes(c.index)),
+      ...members.filter((i) => !pooled.has(i)).map(candidate),
+      ...alikePool.filter(
+        (c) => !inFit.has(c.ref.id) && !members.includes(c.index) && sharesLines(c.lines, self.lines, self.params.cellScale) && sharesLines(self.lines, c.lines, 1 / self.params.cellScale),
+      ),
+    ].slice(0, MAX_LOOKALIKES);
     if (others.length === 0) continue;
     const score = (ev: FitEvaluation, j: number) => nEff * Math.log(Math.max(ev.chi2, 1e-300)) + ((ev.phases[j].params.cellScale - 1) / CELL_PRIOR) ** 2;
     const ownScore = score(fit, k);

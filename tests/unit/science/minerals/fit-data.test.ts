@@ -201,7 +201,9 @@ describe("cellMass against handbook formula weight × Z, density against handboo
     expect(findLibraryPhase("illite")).toMatchObject({ texture: [0, 0, 1], broadening: 3 });
     expect(findLibraryPhase("montmorillonite")).toMatchObject({ texture: [0, 0, 1], variable001: true, d001Range: [12, 15.5] });
     for (const id of ["chamosite", "vermiculite"]) expect(findLibraryPhase(id)?.texture, id).toEqual([0, 0, 1]);
-    expect(findLibraryPhase("hornblende")?.hazards).toContain("asbestos");
+    // Hornblende is not among the regulated asbestos minerals (chrysotile; the amphiboles riebeckite/crocidolite,
+    // grunerite/amosite, anthophyllite, tremolite, actinolite — e.g. US 29 CFR 1910.1001, EU Directive 2009/148/EC).
+    expect(findLibraryPhase("hornblende")?.hazards).not.toContain("asbestos");
     const series = ["albite", "oligoclase", "andesine", "labradorite"].map((id) => findLibraryPhase(id)!);
     for (let i = 1; i < series.length; i++) {
       expect(series[i].cell.gamma, series[i].id).toBeGreaterThan(series[i - 1].cell.gamma);

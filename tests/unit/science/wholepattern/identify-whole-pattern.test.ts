@@ -34,6 +34,13 @@ describe("identifyWholePattern", () => {
     for (let i = 0; i < r.observed.length; i += 97) expect(r.calculated[i] + r.difference[i]).toBeCloseTo(r.observed[i], 6);
   });
 
+  test("quartz 50 + albite 30 + muscovite 20 wt% (albite's strongest lines crowd at 27.7–28.0° 2θ): all found, wt% within 3", () => {
+    const r = identifyWholePattern(processScan(synthesizeScan({ phases: [["quartz", 50], ["albite", 30], ["muscovite", 20]].map(([m, w]) => ({ pattern: ref(m as string), weight: w as number })), zeroShift: 0.04, seed: 21 })), REFERENCE_LIBRARY);
+    const wt = Object.fromEntries(r.phases.map((p) => [p.referenceId, p.wtPercent]));
+    expect(Object.keys(wt).sort()).toEqual(["albite", "muscovite", "quartz"]);
+    expect(Math.abs(wt.albite! - 30)).toBeLessThan(3);
+  });
+
   test("a minor phase (hematite 8 wt%) next to a major one is found, and nothing else is added", () => {
     const r = identifyWholePattern(mixture([["quartz", 92], ["hematite", 8]], 11), REFERENCE_LIBRARY);
     expect(r.phases.map((p) => p.referenceId).sort()).toEqual(["hematite", "quartz"]);
