@@ -82,7 +82,7 @@ export async function renderStaticMap(stations: readonly PhaseMapStation[], opti
     layout.tiles.map(async (t) => {
       if (!hasOfflineTile(t.z, t.x, t.y)) return null;
       try {
-        return { input: await readFile(/* turbopackIgnore: true */ join(tilesDir, String(t.z), String(t.x), `${t.y}.png`)), left: t.left - minLeft, top: t.top - minTop };
+        return { input: await readFile(join(/* turbopackIgnore: true */ tilesDir, String(t.z), String(t.x), `${t.y}.png`)), left: t.left - minLeft, top: t.top - minTop };
       } catch {
         return null;
       }

@@ -57,7 +57,7 @@ export async function listOutbox({ dir = outboxDir(), limit = 200 }: { dir?: str
   const out: OutboxMessage[] = [];
   for (const name of names.slice(0, limit)) {
     try {
-      out.push(JSON.parse(await readFile(/* turbopackIgnore: true */ join(dir, name), "utf8")) as OutboxMessage);
+      out.push(JSON.parse(await readFile(join(/* turbopackIgnore: true */ dir, name), "utf8")) as OutboxMessage);
     } catch {
       // a half-written or foreign file: skip it
     }
