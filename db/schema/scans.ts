@@ -180,3 +180,31 @@ export const phaseResults = sqliteTable(
     check("phase_results_wt_ck", sql`${t.wtPercent} IS NULL OR ${t.wtPercent} BETWEEN 0 AND 100`),
   ],
 );
+
+/**
+ * Every sign-off of a scan, versioned (1, 2, …): what it confirmed (the SignOffRecord of lib/dal/scan-review.ts, with
+ * the fit it rests on and each phase's wt% or why it has none), who signed and when, and — when it was reopened —
+ * who reopened it, when and why. Rows are never deleted; the map and exports use the scan's current (latest) sign-off.
+ */
+export const scanSignOffs = sqliteTable(
+  "scan_sign_offs",
+  {
+    id: id(),
+    scanId: text("scan_id")
+      .notNull()
+      .references(() => scans.id, { onDelete: "cascade" }),
+    projectId: text("project_id")
+      .notNull()
+      .references(() => projects.id, { onDelete: "cascade" }),
+    version: integer("version").notNull(),
+    runId: text("run_id").notNull(),
+    recordJson: text("record_json", { mode: "json" }).$type<Record<string, unknown>>().notNull(),
+    note: text("note"),
+    signedBy: text("signed_by").references(() => user.id, { onDelete: "set null" }),
+    signedAt: integer("signed_at", { mode: "timestamp_ms" }).notNull(),
+    reopenedAt: integer("reopened_at", { mode: "timestamp_ms" }),
+    reopenedBy: text("reopened_by").references(() => user.id, { onDelete: "set null" }),
+    reopenReason: text("reopen_reason"),
+  },
+  (t) => [uniqueIndex("scan_sign_offs_version_uq").on(t.scanId, t.version)],
+);

@@ -8,7 +8,7 @@
  */
 import { and, eq, inArray } from "drizzle-orm";
 import { getDb } from "@/db";
-import { auditLog, custodyEvents, phaseResults, processingRuns, projects, referencePhases, samples, scans, user } from "@/db/schema";
+import { auditLog, custodyEvents, phaseResults, processingRuns, projects, referencePhases, samples, scanSignOffs, scans, user } from "@/db/schema";
 import type { SignOffRecord } from "@/lib/dal/scan-review";
 import { drainProcessingQueue, PIPELINE_VERSION, writeSampleEvent, type RunParams, type RunProfile } from "@/lib/jobs";
 import { findLibraryPhase, findReferencePattern } from "@/lib/science/minerals";
@@ -203,7 +203,9 @@ export async function seedDemoScans(projectCode = "APR"): Promise<number> {
         .map((r) => ({ phaseResultId: r.id, referencePhaseId: r.referencePhaseId, mineral: r.mineral, wtPercent: r.wtPercent, wtSigma: r.wtSigma, fitted: r.fitted, source: r.source })),
     };
     await db.transaction(async (tx) => {
+      record.version = 1;
       await tx.update(scans).set({ status: "signed_off", signedOffBy: lab.id, signedOffAt: signedAt, signOffJson: record as unknown as Record<string, unknown> }).where(eq(scans.id, p.scanId));
+      await tx.insert(scanSignOffs).values({ scanId: p.scanId, projectId: project.id, version: 1, runId: record.runId, recordJson: record as unknown as Record<string, unknown>, note: scan.analystNote, signedBy: lab.id, signedAt });
       // The sign-off's review event moves the sample to "confirmed" (the status follows the events).
       await writeSampleEvent(tx, { sampleId: p.sampleId, event: "confirmed", actorId: lab.id, actorName: lab.name, occurredAt: signedAt.toISOString(), scanId: p.scanId, action: "status" });
       await tx.insert(auditLog).values({ projectId: project.id, actorId: lab.id, action: "sign_off", entity: "scan", entityId: p.scanId, afterJson: { status: "signed_off", runId: record.runId, fit: record.fit, confirmed: record.phases }, createdAt: signedAt });

@@ -1,7 +1,8 @@
 import "server-only";
-import { and, asc, desc, eq, inArray } from "drizzle-orm";
+import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
+import { alias } from "drizzle-orm/sqlite-core";
 import { getDb } from "@/db";
-import { phaseResults, processingRuns, referencePhases, scans, user } from "@/db/schema";
+import { phaseResults, processingRuns, projects, referencePhases, samples, scanSignOffs, scans, user } from "@/db/schema";
 import {
   advanceSampleStatus,
   fitOptionsOf,
@@ -19,10 +20,12 @@ import {
 } from "@/lib/jobs";
 import { analyseInWorker } from "@/lib/jobs/analyse-in-worker";
 import { getStorage, StorageError } from "@/lib/storage";
-import { manualPhaseSchema, phaseDecisionSchema, refitSchema, scanNoteSchema, signOffSchema } from "@/lib/validation/scan";
+import { writeSampleEvent } from "@/lib/jobs/sample-status";
+import { MAX_REFIT_PHASES, manualPhaseSchema, phaseDecisionSchema, refitSchema, reopenSchema, scanNoteSchema, signOffSchema } from "@/lib/validation/scan";
 import { authorize, type Actor } from "./actor";
 import { audit, type DbOrTx } from "./audit";
-import { conflict, invalid, notFound } from "./errors";
+import { AppError, conflict, forbidden, invalid, notFound } from "./errors";
+import { roleAllows } from "./permissions";
 import { notifySignOff, type SignOffOutcome } from "./notifications";
 import { otherHazardsOf } from "./reference-phases";
 import { validateInput } from "./validate";
@@ -248,7 +251,21 @@ export interface SignOffRecord {
     chosenBy: "fit" | "analyst";
     noConfidentMatch: boolean;
   } | null;
-  phases: { phaseResultId: string; referencePhaseId: string; mineral: string; wtPercent: number | null; wtSigma: number | null; fitted: boolean; source: "auto" | "manual" }[];
+  phases: {
+    phaseResultId: string;
+    referencePhaseId: string;
+    mineral: string;
+    wtPercent: number | null;
+    wtSigma: number | null;
+    fitted: boolean;
+    source: "auto" | "manual";
+    /** Why the phase has no wt% (e.g. no structure model), when it has none. */
+    wtNote?: string | null;
+  }[];
+  /** Version of this sign-off of the scan (1, 2, … after reopening); absent in records made before versions existed. */
+  version?: number;
+  /** The wt% of exactly the accepted phases were recomputed together by a whole-pattern fit before signing (issue 11 §5). */
+  recomputed?: boolean;
 }
 
 /**
@@ -257,10 +274,11 @@ export interface SignOffRecord {
  * and the sample moves to "confirmed". Notifies the leads
  * afterwards (a mail failure does not undo the sign-off).
  */
-export async function signOffScan(actor: Actor, projectId: string, scanId: string, raw: unknown): Promise<{ scanId: string; confirmed: string[]; notification: SignOffOutcome | null }> {
+export async function signOffScan(actor: Actor, projectId: string, scanId: string, raw: unknown): Promise<{ scanId: string; confirmed: string[]; version: number; recomputed: boolean; notification: SignOffOutcome | null }> {
   await authorize(actor, projectId, "phase.review");
   const input = validateInput(signOffSchema, raw);
   const db = getDb();
+  const recomputed = await recomputeAcceptedTogether(actor, projectId, scanId);
   const result = await db.transaction(async (tx) => {
     const { scan, runId } = await reviewableScan(tx, projectId, scanId);
     const accepted = await tx
@@ -272,6 +290,8 @@ export async function signOffScan(actor: Actor, projectId: string, scanId: strin
         wtSigma: phaseResults.wtSigma,
         fitted: phaseResults.fitted,
         source: phaseResults.source,
+        fit: phaseResults.fitJson,
+        hasStructure: referencePhases.fitJson,
       })
       .from(phaseResults)
       .innerJoin(referencePhases, eq(referencePhases.id, phaseResults.referencePhaseId))
@@ -286,24 +306,39 @@ export async function signOffScan(actor: Actor, projectId: string, scanId: strin
       fit: fit
         ? { ...fit.stats, quantification: fit.quantification.method, semiQuantitative: fit.quantification.semiQuantitative, chosenBy: fit.chosenBy, noConfidentMatch: fit.noConfidentMatch }
         : null,
-      phases: accepted.map((a) => ({ phaseResultId: a.id, referencePhaseId: a.referencePhaseId, mineral: a.mineral, wtPercent: a.wtPercent, wtSigma: a.wtSigma, fitted: a.fitted, source: a.source })),
+      phases: accepted.map((a) => ({
+        phaseResultId: a.id,
+        referencePhaseId: a.referencePhaseId,
+        mineral: a.mineral,
+        wtPercent: a.wtPercent,
+        wtSigma: a.wtSigma,
+        fitted: a.fitted,
+        source: a.source,
+        wtNote: a.wtPercent != null ? null : whyNoWt(a, recomputed),
+      })),
+      version: 0,
+      recomputed: recomputed.done,
     };
+    const [{ last }] = await tx.select({ last: sql<number>`coalesce(max(${scanSignOffs.version}), 0)` }).from(scanSignOffs).where(eq(scanSignOffs.scanId, scanId));
+    record.version = last + 1;
     const [row] = await tx
       .update(scans)
       .set({ status: "signed_off", signedOffBy: actor.userId, signedOffAt: now, analystNote: note ?? null, signOffJson: record as unknown as Record<string, unknown> })
       .where(and(eq(scans.id, scanId), eq(scans.status, scan.status)))
       .returning();
     if (!row) throw conflict("The scan changed while signing off; reload and try again.");
+    // Every sign-off is kept as a version; reopening marks it, a new sign-off adds the next one.
+    await tx.insert(scanSignOffs).values({ scanId, projectId, version: record.version!, runId, recordJson: record as unknown as Record<string, unknown>, note: note ?? null, signedBy: actor.userId, signedAt: now });
     await audit(tx, actor, {
       projectId,
       action: "sign_off",
       entity: "scan",
       entityId: scanId,
       before: { status: scan.status },
-      after: { status: "signed_off", runId, fit: record.fit, confirmed: record.phases, note },
+      after: { status: "signed_off", runId, version: record.version, recomputed: record.recomputed, fit: record.fit, confirmed: record.phases, note },
     });
-    await advanceSampleStatus(tx, scan.sampleId, "confirmed", actor.userId);
-    return { sampleId: scan.sampleId, confirmed: accepted.map((a) => a.mineral) };
+    await advanceSampleStatus(tx, scan.sampleId, "confirmed", actor.userId, { scanId, note: `Sign-off version ${record.version}` });
+    return { sampleId: scan.sampleId, confirmed: accepted.map((a) => a.mineral), version: record.version! };
   });
   let notification: SignOffOutcome | null = null;
   try {
@@ -311,7 +346,140 @@ export async function signOffScan(actor: Actor, projectId: string, scanId: strin
   } catch (err) {
     console.error("sign-off notification failed:", err);
   }
-  return { scanId, confirmed: result.confirmed, notification };
+  return { scanId, confirmed: result.confirmed, version: result.version, recomputed: recomputed.done, notification };
+}
+
+/** What recomputing the accepted phases together did before a sign-off. */
+interface Recompute {
+  done: boolean;
+  /** Why it was not done, when it was needed but could not be. */
+  skipped?: string;
+}
+
+/**
+ * "The wt% of the accepted phases are recomputed together" (issue 11 §5): when the accepted phases are not exactly the
+ * phases the current run's whole-pattern fit quantified — the analyst rejected a fitted phase, accepted a ranked
+ * candidate the fit left out, or added one by hand — the pattern is refitted with exactly the accepted phases
+ * (refitScan: the whole-pattern fit with options.phaseIds), which makes a new current run whose accepted phases carry
+ * wt% ± σ normalised over the accepted set only. Nothing to do when they already match.
+ */
+async function recomputeAcceptedTogether(actor: Actor, projectId: string, scanId: string): Promise<Recompute> {
+  const db = getDb();
+  const { runId } = await reviewableScan(db, projectId, scanId);
+  const rows = await db
+    .select({ referencePhaseId: phaseResults.referencePhaseId, status: phaseResults.status, fitted: phaseResults.fitted, wtPercent: phaseResults.wtPercent })
+    .from(phaseResults)
+    .where(eq(phaseResults.runId, runId));
+  const accepted = rows.filter((r) => r.status === "accepted");
+  if (accepted.length === 0) return { done: false };
+  const quantified = rows.filter((r) => r.fitted && r.wtPercent != null);
+  const same = quantified.length === accepted.length && accepted.every((a) => a.fitted && a.wtPercent != null);
+  if (same) return { done: false };
+  if (accepted.length > MAX_REFIT_PHASES) return { done: false, skipped: `more than ${MAX_REFIT_PHASES} accepted phases: not refitted together` };
+  try {
+    await refitScan(actor, projectId, scanId, { phaseIds: accepted.map((a) => a.referencePhaseId) });
+    return { done: true };
+  } catch (err) {
+    // A scan whose stored file or run cannot be refitted is signed off with the wt% it has, saying why.
+    if (err instanceof AppError && (err.code === "not_found" || err.code === "validation_failed")) return { done: false, skipped: err.message };
+    throw err;
+  }
+}
+
+/** Why an accepted phase has no wt% in a sign-off. */
+function whyNoWt(a: { fitted: boolean; fit: unknown; hasStructure: unknown; source: "auto" | "manual" }, r: Recompute): string {
+  const note = (a.fit as { wtNote?: string } | null)?.wtNote;
+  if (note) return note;
+  if (!a.hasStructure) return "no structure model for this phase (no calculated pattern to fit)";
+  if (r.skipped) return `wt% not recomputed (${r.skipped})`;
+  if (!a.fitted) return "the whole-pattern fit gave it no measurable share";
+  return "the fit gave no wt% for this phase";
+}
+
+/**
+ * Reopens a signed-off scan (issue 11 §5): a project lead, a site admin or the analyst who signed it, with a reason.
+ * The sign-off stays in the history (its version is marked reopened, with who, when and why); the scan is under review
+ * again and its phases stop counting as confirmed until the next sign-off, which becomes the next version. The sample
+ * goes back to "candidates ready" unless another signed-off scan still confirms phases on it. Audited.
+ */
+export async function reopenScan(actor: Actor, projectId: string, scanId: string, raw: unknown) {
+  const access = await authorize(actor, projectId, "project.read");
+  const db = getDb();
+  const [scan] = await db.select().from(scans).where(and(eq(scans.id, scanId), eq(scans.projectId, projectId)));
+  if (!scan) throw notFound("Scan not found.");
+  const mayReopen = actor.isAdmin || access.role === "lead" || (scan.signedOffBy === actor.userId && roleAllows(access.role, "phase.review"));
+  if (!mayReopen) throw forbidden("Only a project lead or the analyst who signed off can reopen a sign-off.");
+  const { reason } = validateInput(reopenSchema, raw);
+  if (scan.status !== "signed_off") throw conflict("This scan is not signed off; there is nothing to reopen.");
+  const [project] = await db.select({ archivedAt: projects.archivedAt }).from(projects).where(eq(projects.id, projectId));
+  if (project?.archivedAt) throw conflict("This project is archived and read-only. A lead can unarchive it in the project settings.");
+  return db.transaction(async (tx) => {
+    const [latest] = await tx.select().from(scanSignOffs).where(eq(scanSignOffs.scanId, scanId)).orderBy(desc(scanSignOffs.version)).limit(1);
+    const now = new Date();
+    if (latest) await tx.update(scanSignOffs).set({ reopenedAt: now, reopenedBy: actor.userId, reopenReason: reason }).where(eq(scanSignOffs.id, latest.id));
+    const [row] = await tx
+      .update(scans)
+      .set({ status: "processed", signedOffBy: null, signedOffAt: null, signOffJson: null })
+      .where(and(eq(scans.id, scanId), eq(scans.status, "signed_off")))
+      .returning({ id: scans.id });
+    if (!row) throw conflict("The scan changed while reopening; reload and try again.");
+    const [other] = await tx
+      .select({ id: scans.id })
+      .from(scans)
+      .where(and(eq(scans.sampleId, scan.sampleId), eq(scans.status, "signed_off")))
+      .limit(1);
+    const [sample] = await tx.select({ status: samples.status }).from(samples).where(eq(samples.id, scan.sampleId));
+    const back = !other && !!sample && (sample.status === "confirmed" || sample.status === "reported");
+    await writeSampleEvent(tx, {
+      sampleId: scan.sampleId,
+      event: "reopened",
+      actorId: actor.userId,
+      actorName: actor.name,
+      scanId,
+      note: `Sign-off version ${latest?.version ?? 1} reopened: ${reason}`,
+      policy: back ? "reset" : "keep",
+      action: "status",
+    });
+    await audit(tx, actor, {
+      projectId,
+      action: "reopen",
+      entity: "scan",
+      entityId: scanId,
+      before: { status: "signed_off", version: latest?.version ?? null, signedOffBy: scan.signedOffBy },
+      after: { status: "processed", reason },
+    });
+    return { scanId, status: "processed" as const, reopenedVersion: latest?.version ?? null };
+  });
+}
+
+/** The scan's sign-offs, newest first, with who signed, who reopened and why (any member). */
+export async function listSignOffs(actor: Actor, projectId: string, scanId: string) {
+  const access = await authorize(actor, projectId, "project.read");
+  const db = getDb();
+  const [scan] = await db.select({ id: scans.id, status: scans.status, signedOffBy: scans.signedOffBy }).from(scans).where(and(eq(scans.id, scanId), eq(scans.projectId, projectId)));
+  if (!scan) throw notFound("Scan not found.");
+  const signer = alias(user, "signer");
+  const reopener = alias(user, "reopener");
+  const rows = await db
+    .select({
+      id: scanSignOffs.id,
+      version: scanSignOffs.version,
+      runId: scanSignOffs.runId,
+      record: scanSignOffs.recordJson,
+      note: scanSignOffs.note,
+      signedAt: scanSignOffs.signedAt,
+      signedByName: signer.name,
+      reopenedAt: scanSignOffs.reopenedAt,
+      reopenedByName: reopener.name,
+      reopenReason: scanSignOffs.reopenReason,
+    })
+    .from(scanSignOffs)
+    .leftJoin(signer, eq(signer.id, scanSignOffs.signedBy))
+    .leftJoin(reopener, eq(reopener.id, scanSignOffs.reopenedBy))
+    .where(eq(scanSignOffs.scanId, scanId))
+    .orderBy(desc(scanSignOffs.version));
+  const canReopen = scan.status === "signed_off" && (actor.isAdmin || access.role === "lead" || (scan.signedOffBy === actor.userId && roleAllows(access.role, "phase.review")));
+  return { items: rows.map((r) => ({ ...r, record: r.record as unknown as SignOffRecord, current: scan.status === "signed_off" && !r.reopenedAt })), canReopen };
 }
 
 /** A phase as the sample page shows it. */

@@ -168,6 +168,11 @@ export const scanNoteSchema = z.object({ note: optionalText(8000) }).strict();
 /** Make an earlier run the current one. */
 export const scanPatchSchema = z.object({ currentRunId: z.string().trim().min(1) }).strict();
 
+/** Reopening a sign-off says why (kept with the sign-off's version). */
+export const reopenSchema = z
+  .object({ reason: z.string({ error: "Say why the sign-off is reopened." }).trim().min(5, "Say why the sign-off is reopened (at least a few words).").max(2000, "At most 2000 characters.") })
+  .strict();
+
 export const signOffSchema = z
   .object({
     /** The analyst confirms they reviewed the accepted phases. */

@@ -18,6 +18,7 @@ import { GET as phaseMap } from "@/app/api/projects/[projectId]/phase-map/route"
 import { GET as exportFormat } from "@/app/api/projects/[projectId]/exports/[format]/route";
 import { GET as listShareLinks, POST as createShareLink } from "@/app/api/projects/[projectId]/share-links/route";
 import { GET as auditLogRoute } from "@/app/api/projects/[projectId]/audit/route";
+import { GET as signOffsRoute } from "@/app/api/projects/[projectId]/scans/[scanId]/sign-offs/route";
 import { GET as auditExportRoute } from "@/app/api/projects/[projectId]/audit/export/route";
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db";
@@ -76,6 +77,8 @@ const ROUTES: RouteCase[] = [
     params: (w) => ({ projectId: w.projectId, scanId: review.scanId }),
     body: () => ({ phaseIds: review.phaseIds }),
   },
+  // Reopening is allowed per person (lead, admin, the signing analyst): tests/integration/sign-off-versions.route.test.ts.
+  { name: "GET scan sign-offs", handler: signOffsRoute, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId, scanId: review.scanId }) },
   { name: "GET phase map", handler: phaseMap, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "GET project", handler: getProject, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "GET samples", handler: listSamples, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },

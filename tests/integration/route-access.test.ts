@@ -68,6 +68,9 @@ const ACCESS: Record<string, Access> = {
   "POST /api/projects/[projectId]/scans/[scanId]/phases": "phase.review",
   "POST /api/projects/[projectId]/scans/[scanId]/process": "scan.write",
   "POST /api/projects/[projectId]/scans/[scanId]/refit": "phase.review",
+  // The route lets members through; the DAL allows a lead, a site admin or the signing analyst (custody-and-review tests).
+  "POST /api/projects/[projectId]/scans/[scanId]/reopen": "project.read",
+  "GET /api/projects/[projectId]/scans/[scanId]/sign-offs": "project.read",
   "GET /api/projects/[projectId]/scans/[scanId]": "project.read",
   "PATCH /api/projects/[projectId]/scans/[scanId]": "phase.review",
   "POST /api/projects/[projectId]/scans/[scanId]/sign-off": "phase.review",

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { notFound } from "next/navigation";
 import { Suspense } from "react";
+import { SignOffHistory } from "@/components/review/sign-off-history";
 import { ScanReview } from "@/components/scans/scan-review";
 import { Skeleton } from "@/components/ui/card";
 import { AppError } from "@/lib/dal/errors";
@@ -25,6 +26,9 @@ export default async function ScanPage({ params }: { params: Promise<{ projectId
   return (
     <Suspense fallback={<Skeleton className="h-96 w-full" />}>
       <ScanReview projectId={projectId} scanId={scanId} />
+      <div className="mt-4">
+        <SignOffHistory projectId={projectId} scanId={scanId} />
+      </div>
     </Suspense>
   );
 }
