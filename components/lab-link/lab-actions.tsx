@@ -115,6 +115,10 @@ export function LabIntakeForm({ token, samples }: { token: string; samples: LabS
               <td className="py-1.5 pr-3 font-mono font-medium">
                 {s.code}
                 {s.suspectedAsbestos && <span className="ml-2 text-xs font-sans font-semibold text-danger">Suspected asbestos</span>}
+                <span className="block font-sans text-xs font-normal text-muted">
+                  {s.typeLabel}
+                  {s.weightKg != null ? ` · ${s.weightKg} kg` : ""}
+                </span>
               </td>
               <td className="py-1.5 pr-3">
                 <select aria-label={`Condition of ${s.code}`} value={conditions[s.id]} onChange={(e) => setConditions({ ...conditions, [s.id]: e.target.value })} className={inputClass}>

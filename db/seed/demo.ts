@@ -24,7 +24,7 @@ export async function seedDemo(): Promise<boolean> {
     const [org] = await tx.insert(organisations).values({ name: "Meseta Minerals S.L. (invented)" }).returning();
     const [project] = await tx
       .insert(projects)
-      .values({ organisationId: org.id, code: DEMO_PROJECT.code, name: DEMO_PROJECT.name, region: DEMO_PROJECT.region, description: DEMO_PROJECT.description, labEmail: DEMO_PROJECT.labEmail })
+      .values({ organisationId: org.id, code: DEMO_PROJECT.code, name: DEMO_PROJECT.name, region: DEMO_PROJECT.region, description: DEMO_PROJECT.description, labEmail: DEMO_PROJECT.labEmail, timeZone: "Europe/Madrid" })
       .returning();
     const [other] = await tx.insert(projects).values({ organisationId: org.id, code: DEMO_OTHER_PROJECT.code, name: DEMO_OTHER_PROJECT.name, region: DEMO_OTHER_PROJECT.region }).returning();
     for (const u of DEMO_USERS) if (u.role) await tx.insert(projectMembers).values({ projectId: project.id, userId: users[u.key].id, role: u.role });

@@ -32,9 +32,9 @@ describe("lab submission in the browser", () => {
     const { page, errors } = await as("field");
     projectId = await openDemoProject(page);
     await page.goto(`${baseUrl()}/projects/${projectId}/samples?sort=code&dir=desc`);
-    await page.check('input[aria-label="Select APR-000060"]');
-    await page.check('input[aria-label="Select APR-000059"]');
-    await page.click("text=Submit to lab (2)");
+    await page.locator('input[aria-label="Select APR-000060"]:visible').check();
+    await page.locator('input[aria-label="Select APR-000059"]:visible').check();
+    await page.locator("text=Submit to lab (2) >> visible=true").first().click();
     await page.waitForURL(/submissions\/new\?sampleIds=/);
     await expect.poll(() => page.locator('ul[aria-label="Selected samples"] li').count()).toBe(2);
     await page.click("text=Create draft with 2 samples");
@@ -88,6 +88,7 @@ describe("lab submission in the browser", () => {
     await expect.poll(() => page.locator("text=Prepared recorded for 2 samples.").count(), { timeout: 20_000 }).toBe(1);
     await page.click("a:text('APR-000059')");
     await page.waitForURL(/samples\/[0-9a-f-]{36}$/);
+    await page.waitForSelector('ol[aria-label="Custody events, oldest first"] > li');
     const steps = await page.locator('ol[aria-label="Custody events, oldest first"] > li').allTextContents();
     expect(steps.map((s) => s.split(" · ")[0])).toEqual(["Collected", "Dispatched", "Received at lab", "Prepared"]);
     expect(steps[2]).toContain("damaged");

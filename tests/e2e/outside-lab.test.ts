@@ -116,6 +116,7 @@ describe("an outside lab works from the e-mailed link, without an account", () =
     const r = await page.request.get(`${baseUrl()}/api/projects/${projectId}/samples?code=${CODES[0]}`);
     const id = ((await r.json()) as { items: { id: string; code: string }[] }).items.find((s) => s.code === CODES[0])!.id;
     await page.goto(`${baseUrl()}/projects/${projectId}/samples/${id}`);
+    await page.waitForSelector('ol[aria-label="Custody events, oldest first"] > li');
     const steps = await page.locator('ol[aria-label="Custody events, oldest first"] > li').allTextContents();
     expect(steps.map((s) => s.split(" · ")[0]).slice(0, 4)).toEqual(["Collected", "Dispatched", "Received at lab", "Scanned"]);
     expect(steps[2]).toContain(`Ana Ruiz (outside lab, ${LAB_EMAIL})`);
