@@ -141,12 +141,13 @@ export function UserAdmin({ users, me }: { users: AdminUserRow[]; me: string }) 
                       variant="secondary"
                       className="px-2 py-1 text-xs"
                       disabled={busy !== null}
-                      onClick={() =>
+                      onClick={() => {
+                        if (!u.siteAdmin && !window.confirm(`Make ${u.name} a site admin? Site admins can manage every account and act as lead in every project.`)) return;
                         void act(u.id, async () => {
                           await fetchJson(`/api/admin/users/${u.id}`, { method: "PATCH", json: { siteAdmin: !u.siteAdmin } });
                           return `${u.name} is ${u.siteAdmin ? "no longer" : "now"} a site admin.`;
-                        })
-                      }
+                        });
+                      }}
                     >
                       {u.siteAdmin ? "Remove site admin" : "Make site admin"}
                     </Button>

@@ -95,7 +95,7 @@ export function ProjectForm({ project, codeLocked }: { project?: ProjectValues; 
           <input id="p-name" name="name" required defaultValue={v?.name ?? ""} className={inputClass} />
         </Field>
         <Field label="Code" htmlFor="p-code" error={fields.code} hint={codeLocked ? "Fixed: it prefixes the sample codes already issued." : "2–8 capital letters or digits; it prefixes sample codes (e.g. APR → APR-000001)."}>
-          <input id="p-code" name="code" required defaultValue={v?.code ?? ""} disabled={codeLocked} className={inputClass} style={{ textTransform: "uppercase" }} />
+          <input id="p-code" name="code" required defaultValue={v?.code ?? ""} disabled={codeLocked} className={`${inputClass} disabled:bg-stone disabled:text-muted`} style={{ textTransform: "uppercase" }} />
         </Field>
         <Field label="Region" htmlFor="p-region" error={fields.region}>
           <input id="p-region" name="region" defaultValue={v?.region ?? ""} className={inputClass} />

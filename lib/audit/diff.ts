@@ -10,8 +10,8 @@ export interface FieldChange {
   after: unknown;
 }
 
-/** Bookkeeping fields that change with every write and say nothing about the change itself. */
-const NOISE = new Set(["updatedAt", "version"]);
+/** Bookkeeping fields (timestamps, version counters, the id of the custody row written) that say nothing about the change itself. */
+const NOISE = new Set(["updatedAt", "version", "custodyEventId"]);
 
 const isObject = (v: unknown): v is Record<string, unknown> => typeof v === "object" && v !== null && !Array.isArray(v);
 

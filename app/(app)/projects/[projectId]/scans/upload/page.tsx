@@ -40,6 +40,10 @@ export default async function UploadScansPage({ params, searchParams }: { params
             counts per second the time per step, from the file or the form. The file is kept byte for byte; processing (smoothing, background, Kα2 stripping when present, peak fitting)
             and phase search start on the server as soon as it is stored. A file the reader cannot use is refused with the line at fault, and nothing is stored.
           </p>
+          <p className="text-sm text-muted" data-testid="upload-custody-rule">
+            A scan is attached only to a sample the lab has received: record the intake on its submission first (or, in a project whose lab is in-house, “received directly” on the
+            sample page).
+          </p>
           <div className="rounded-lg border border-line bg-white p-4 shadow-sm">
             <ScanUpload projectId={projectId} initialSample={initial} />
           </div>
