@@ -22,6 +22,11 @@ export default async function ProjectLayout({ children, params }: { children: Re
       </AppHeader>
       <OutboxAutoSync projectId={projectId} userId={actor.userId} />
       <ProjectNav items={items} />
+      {project.archivedAt && (
+        <p role="status" className="no-print border-b border-line bg-stone px-4 py-2 text-center text-sm" data-testid="archived-banner">
+          This project is archived and read-only{roleAllows(project.role, "project.manage") ? ": a lead can bring it back in Settings." : "."}
+        </p>
+      )}
       <main id="main" className="mx-auto max-w-7xl px-4 pb-24 pt-6 md:py-6">
         {children}
       </main>
