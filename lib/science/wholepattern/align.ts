@@ -6,6 +6,7 @@
  * coverage, used to shortlist.
  */
 import type { PhaseLines } from "./phase-lines";
+import { lowerBound } from "./profile";
 import type { GlobalProfile } from "./types";
 
 const DEG = 180 / Math.PI;
@@ -64,16 +65,7 @@ function valueAt(m: SignalMap, arr: Float64Array, v: number): number {
   const n = x.length;
   let i: number;
   if (m.uniform) i = Math.floor((v - m.uniform.x0) / m.uniform.step) + 1;
-  else {
-    let lo = 0;
-    let hi = n;
-    while (lo < hi) {
-      const mid = (lo + hi) >> 1;
-      if (x[mid] < v) lo = mid + 1;
-      else hi = mid;
-    }
-    i = lo;
-  }
+  else i = lowerBound(x, v);
   if (i <= 0 || i >= n) return 0;
   const t = (v - x[i - 1]) / (x[i] - x[i - 1]);
   return arr[i - 1] + t * (arr[i] - arr[i - 1]);

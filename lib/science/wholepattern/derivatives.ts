@@ -6,15 +6,11 @@
 import { marchDollase } from "@/lib/science/crystal/preferred-orientation";
 import { forgetSegments } from "./nnls";
 import type { PhaseLines } from "./phase-lines";
-import { cagliotiFwhm, linePosition, lowerBound } from "./profile";
+import { CG, CL, GAUSS_FWHM, TAIL_FWHM, cagliotiFwhm, linePosition, lowerBound } from "./profile";
 import type { GlobalProfile, PhaseProfileParams } from "./types";
 
 const DEG = 180 / Math.PI;
 const LN2 = Math.LN2;
-const CG = 2 * Math.sqrt(LN2 / Math.PI);
-const CL = 2 / Math.PI;
-const TAIL_FWHM = 8;
-const GAUSS_FWHM = 3;
 
 /** Profile and derivatives of one phase, each the length of the grid. */
 export interface PhaseRender {

@@ -9,14 +9,14 @@ import type { PhaseLines } from "./phase-lines";
 import type { Caglioti, GlobalProfile, PhaseProfileParams } from "./types";
 
 const DEG = 180 / Math.PI;
-const RAD = Math.PI / 180;
 const LN2x4 = 4 * Math.LN2;
-const CG = 2 * Math.sqrt(Math.LN2 / Math.PI);
-const CL = 2 / Math.PI;
+/** Peak heights of the unit-area Gaussian and Lorentzian of FWHM 1: 2√(ln2/π) and 2/π. */
+export const CG = 2 * Math.sqrt(Math.LN2 / Math.PI);
+export const CL = 2 / Math.PI;
 /** Profile tails are cut at this many FWHM (the Lorentzian area beyond ±8 H is about 4 % of η). */
-const TAIL_FWHM = 8;
+export const TAIL_FWHM = 8;
 /** The Gaussian part is negligible (< 1e-11 of its peak) beyond ±3 H. */
-const GAUSS_FWHM = 3;
+export const GAUSS_FWHM = 3;
 
 /** FWHM (° 2θ) at Bragg angle θ (rad) from the Caglioti relation, floored at a tenth of W's width. */
 export function cagliotiFwhm(c: Caglioti, thetaRad: number): number {
@@ -96,7 +96,3 @@ export function renderPhase(
     }
   }
 }
-
-/** Radians → degrees helper for callers that report θ. */
-export const toDegrees = (rad: number): number => rad * DEG;
-export const toRadians = (deg: number): number => deg * RAD;
