@@ -81,6 +81,8 @@ export const structures = sqliteTable(
     declinationApplied: integer("declination_applied", { mode: "boolean" }).notNull().default(false),
     note: text("note"),
     createdBy: text("created_by").references(() => user.id, { onDelete: "set null" }),
+    /** Optimistic concurrency for edits (a stale version gets 409). */
+    version: integer("version").notNull().default(1),
     createdAt: createdAt(),
   },
   (t) => [
