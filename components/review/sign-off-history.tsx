@@ -61,7 +61,7 @@ export function SignOffHistory({ projectId, scanId }: { projectId: string; scanI
             reopen.mutate();
           }}
         >
-          <p className="text-sm text-muted">The scan goes back under review and its phases stop counting as confirmed until it is signed off again. This sign-off stays in the history with your reason.</p>
+          <p className="text-sm text-muted">The scan goes back under review and its phases stop counting as confirmed until it is signed off again. This sign-off stays in the history with your reason. A submission already reported with this result goes back to “in progress” and is reported again, with a new e-mail to the leads, when all its samples are signed off.</p>
           <Field label="Why reopen" htmlFor="reopen-reason" error={err?.fields?.reason}>
             <textarea id="reopen-reason" required rows={2} value={reason} onChange={(e) => setReason(e.target.value)} className={inputClass} />
           </Field>

@@ -44,12 +44,18 @@ async function checkLocally(file: File): Promise<LocalCheck> {
   }
 }
 
-function SettingsFields({ id, errors }: { id: string; errors?: Record<string, string[]> }) {
+/** The project's usual instrument (set by the lead in the project settings), used when the file does not say. */
+export interface InstrumentDefaults {
+  anode: string | null;
+  instrument: string | null;
+}
+
+function SettingsFields({ id, errors, defaults }: { id: string; errors?: Record<string, string[]>; defaults: InstrumentDefaults }) {
   return (
     <fieldset className="grid gap-3 sm:grid-cols-2 lg:grid-cols-4">
       <legend className="mb-1 text-sm font-medium sm:col-span-2 lg:col-span-4">Instrument settings — used only where the file does not give them</legend>
       <Field label="Anode" htmlFor={`${id}-anode`} error={errors?.anode}>
-        <select id={`${id}-anode`} name="anode" className={inputClass} defaultValue="Cu">
+        <select id={`${id}-anode`} name="anode" className={inputClass} defaultValue={defaults.anode ?? "Cu"}>
           <option value="">— (type a wavelength)</option>
           {ANODES.map((a) => (
             <option key={a}>{a}</option>
@@ -63,7 +69,7 @@ function SettingsFields({ id, errors }: { id: string; errors?: Record<string, st
         <input id={`${id}-t`} name="timePerStepS" className={inputClass} inputMode="decimal" />
       </Field>
       <Field label="Instrument" htmlFor={`${id}-inst`} error={errors?.instrument}>
-        <input id={`${id}-inst`} name="instrument" className={inputClass} placeholder="e.g. Lab diffractometer 2" />
+        <input id={`${id}-inst`} name="instrument" className={inputClass} defaultValue={defaults.instrument ?? ""} placeholder="e.g. Lab diffractometer 2" />
       </Field>
       <Field label="Kα2" htmlFor={`${id}-ka2`} hint="Absent on Kα1-only scans (primary monochromator)" error={errors?.kAlpha2}>
         <select id={`${id}-ka2`} name="kAlpha2" className={inputClass} defaultValue="auto">
@@ -116,7 +122,7 @@ function SamplePicker({ projectId, value, onChange, error }: { projectId: string
   );
 }
 
-function SingleUpload({ projectId, initialSample }: { projectId: string; initialSample: SampleHit | null }) {
+function SingleUpload({ projectId, initialSample, defaults }: { projectId: string; initialSample: SampleHit | null; defaults: InstrumentDefaults }) {
   const id = useId();
   const router = useRouter();
   const [sample, setSample] = useState<SampleHit | null>(initialSample);
@@ -163,7 +169,7 @@ function SingleUpload({ projectId, initialSample }: { projectId: string; initial
           )}
         </p>
       )}
-      <SettingsFields id={id} errors={err?.fields} />
+      <SettingsFields id={id} errors={err?.fields} defaults={defaults} />
       {err && !err.fields?.file && (
         <p role="alert" className="text-sm font-medium text-danger">
           {err.message}
@@ -183,7 +189,7 @@ interface Preview {
   problems: { fileName: string; message: string; line?: number }[];
 }
 
-function BulkUpload({ projectId }: { projectId: string }) {
+function BulkUpload({ projectId, defaults }: { projectId: string; defaults: InstrumentDefaults }) {
   const id = useId();
   const router = useRouter();
   const [files, setFiles] = useState<File[]>([]);
@@ -236,7 +242,7 @@ function BulkUpload({ projectId }: { projectId: string }) {
           className="block w-full text-sm file:mr-3 file:rounded-md file:border-0 file:bg-brand-light file:px-3 file:py-2 file:text-brand-dark"
         />
       </Field>
-      <SettingsFields id={id} errors={err?.fields} />
+      <SettingsFields id={id} errors={err?.fields} defaults={defaults} />
       <Button type="submit" variant="secondary" disabled={busy || files.length === 0}>
         {busy ? "Checking…" : `Check ${files.length || ""} file${files.length === 1 ? "" : "s"}`}
       </Button>
@@ -320,7 +326,7 @@ function BulkUpload({ projectId }: { projectId: string }) {
 }
 
 /** Upload one scan to a sample, or several matched to samples by file name (preview, then commit). */
-export function ScanUpload({ projectId, initialSample }: { projectId: string; initialSample: SampleHit | null }) {
+export function ScanUpload({ projectId, initialSample, defaults }: { projectId: string; initialSample: SampleHit | null; defaults: InstrumentDefaults }) {
   const [mode, setMode] = useState<"single" | "bulk">("single");
   const tab = (m: typeof mode, label: string) => (
     <button type="button" role="tab" aria-selected={mode === m} onClick={() => setMode(m)} className={cn("border-b-2 px-3 py-2 text-sm font-medium", mode === m ? "border-oxide text-ink" : "border-transparent text-muted hover:text-ink")}>
@@ -333,7 +339,7 @@ export function ScanUpload({ projectId, initialSample }: { projectId: string; in
         {tab("single", "One file")}
         {tab("bulk", "Several files (matched by name)")}
       </div>
-      <div role="tabpanel">{mode === "single" ? <SingleUpload projectId={projectId} initialSample={initialSample} /> : <BulkUpload projectId={projectId} />}</div>
+      <div role="tabpanel">{mode === "single" ? <SingleUpload projectId={projectId} initialSample={initialSample} defaults={defaults} /> : <BulkUpload projectId={projectId} defaults={defaults} />}</div>
     </div>
   );
 }

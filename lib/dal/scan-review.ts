@@ -2,7 +2,7 @@ import "server-only";
 import { and, asc, desc, eq, inArray, sql } from "drizzle-orm";
 import { alias } from "drizzle-orm/sqlite-core";
 import { getDb } from "@/db";
-import { phaseResults, processingRuns, projects, referencePhases, samples, scanSignOffs, scans, user } from "@/db/schema";
+import { phaseResults, processingRuns, projects, referencePhases, samples, scanSignOffs, scans, submissionSamples, submissions, user } from "@/db/schema";
 import {
   advanceSampleStatus,
   fitOptionsOf,
@@ -448,8 +448,36 @@ export async function reopenScan(actor: Actor, projectId: string, scanId: string
       before: { status: "signed_off", version: latest?.version ?? null, signedOffBy: scan.signedOffBy },
       after: { status: "processed", reason },
     });
-    return { scanId, status: "processed" as const, reopenedVersion: latest?.version ?? null };
+    const reopenedSubmissions = await reopenReportedSubmissions(tx, actor, projectId, scan, reason);
+    return { scanId, status: "processed" as const, reopenedVersion: latest?.version ?? null, reopenedSubmissions };
   });
+}
+
+/**
+ * A submission reported on the strength of this scan's sign-off is no longer fully reported once the sign-off is
+ * reopened: it goes back to "in progress" (the report already sent stays in the audit trail), and the next sign-off
+ * of all its samples reports it again, with a new e-mail to the leads.
+ */
+async function reopenReportedSubmissions(tx: DbOrTx, actor: Actor, projectId: string, scan: { id: string; sampleId: string; createdAt: Date }, reason: string): Promise<string[]> {
+  const reported = await tx
+    .select({ id: submissions.id, code: submissions.code, sentAt: submissions.sentAt, reportedAt: submissions.reportedAt })
+    .from(submissionSamples)
+    .innerJoin(submissions, eq(submissions.id, submissionSamples.submissionId))
+    .where(and(eq(submissionSamples.sampleId, scan.sampleId), eq(submissions.status, "reported")));
+  // Only results made for that submission counted towards its report (scans made after it was sent).
+  const affected = reported.filter((s) => (s.sentAt?.getTime() ?? 0) <= scan.createdAt.getTime());
+  for (const sub of affected) {
+    await tx.update(submissions).set({ status: "in_progress", reportedAt: null }).where(eq(submissions.id, sub.id));
+    await audit(tx, actor, {
+      projectId,
+      action: "reopen",
+      entity: "submission",
+      entityId: sub.id,
+      before: { status: "reported", reportedAt: sub.reportedAt?.toISOString() ?? null },
+      after: { status: "in_progress", reason: `A sign-off of one of its scans was reopened: ${reason}` },
+    });
+  }
+  return affected.map((s) => s.code);
 }
 
 /** The scan's sign-offs, newest first, with who signed, who reopened and why (any member). */

@@ -5,10 +5,11 @@ import { GET as detailRoute } from "@/app/api/projects/[projectId]/submissions/[
 import { POST as batchCustodyRoute } from "@/app/api/projects/[projectId]/submissions/[submissionId]/custody/route";
 import { POST as receiveRoute } from "@/app/api/projects/[projectId]/submissions/[submissionId]/receive/route";
 import { POST as sampleCustodyRoute } from "@/app/api/projects/[projectId]/submissions/[submissionId]/samples/[sampleId]/custody/route";
+import { POST as reopenRoute } from "@/app/api/projects/[projectId]/scans/[scanId]/reopen/route";
 import { POST as sendRoute } from "@/app/api/projects/[projectId]/submissions/[submissionId]/send/route";
 import { GET as listRoute, POST as createRoute } from "@/app/api/projects/[projectId]/submissions/route";
 import { getDb } from "@/db";
-import { custodyEvents, projects, samples, scans, submissions, user } from "@/db/schema";
+import { auditLog, custodyEvents, projects, samples, scans, submissions, user } from "@/db/schema";
 import { notifySignOff } from "@/lib/dal/notifications";
 import type { OutboxMessage } from "@/lib/mail/outbox";
 import { call, makeWorld, type World } from "../helpers/app";
@@ -311,6 +312,19 @@ describe("submission → sent → received → prepared → scanned", () => {
     const [sub] = await db.select().from(submissions).where(eq(submissions.id, subId));
     expect(sub.status).toBe("reported");
     expect(await statusOf(ids[1])).toBe("reported");
+
+    // Reopening one of those sign-offs takes the submission back to "in progress"; signing again reports it again.
+    const reopened = await call(reopenRoute, { method: "POST", params: { projectId: w.projectId, scanId: s2.id }, cookie: w.cookies.lead, body: { reason: "Second look at the chlorite" } });
+    expect(reopened.status).toBe(200);
+    expect(reopened.json.reopenedSubmissions).toEqual([subCode]);
+    const [back] = await db.select().from(submissions).where(eq(submissions.id, subId));
+    expect(back).toMatchObject({ status: "in_progress", reportedAt: null });
+    const trail = await db.select().from(auditLog).where(and(eq(auditLog.entityId, subId), eq(auditLog.action, "reopen")));
+    expect(trail).toHaveLength(1);
+    await db.update(scans).set({ status: "signed_off", signedOffBy: w.userIds.lab_analyst, signedOffAt: new Date() }).where(eq(scans.id, s2.id));
+    const resigned = await notifySignOff({ projectId: w.projectId, scanId: s2.id, sampleId: ids[1], signedOffBy: w.userIds.lab_analyst });
+    expect(resigned.reportedSubmissions).toEqual([subId]);
+    expect(mail.messages.slice(seen).filter((m) => m.subject.startsWith(`Submission ${subCode}: results signed off`))).toHaveLength(2);
   });
 });
 

@@ -45,7 +45,7 @@ export default async function UploadScansPage({ params, searchParams }: { params
             sample page).
           </p>
           <div className="rounded-lg border border-line bg-white p-4 shadow-sm">
-            <ScanUpload projectId={projectId} initialSample={initial} />
+            <ScanUpload projectId={projectId} initialSample={initial} defaults={{ anode: project.defaultAnode ?? null, instrument: project.defaultInstrument ?? null }} />
           </div>
           <p className="text-xs text-muted">{XRAY_EQUIPMENT_NOTE}</p>
         </>
