@@ -22,6 +22,19 @@ const config = [
     files: ["components/**/*.{ts,tsx}", "app/**/*.tsx"],
     rules: { "no-restricted-imports": ["error", { patterns: ["@/db", "@/db/*"] }] },
   },
+  {
+    // TanStack Query keys come from the factories in lib/client/query-keys.ts, never ad-hoc arrays.
+    files: ["components/**/*.{ts,tsx}", "app/**/*.{ts,tsx}"],
+    rules: {
+      "no-restricted-syntax": [
+        "error",
+        {
+          selector: "Property[key.name='queryKey'] > ArrayExpression",
+          message: "Use a key factory from @/lib/client/query-keys instead of an ad-hoc queryKey array.",
+        },
+      ],
+    },
+  },
 ];
 
 export default config;

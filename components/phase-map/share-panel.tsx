@@ -1,6 +1,7 @@
 "use client";
 
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { shareLinkKeys } from "@/lib/client/query-keys";
 import { useState } from "react";
 import { Badge } from "@/components/ui/badge";
 import { buttonClass } from "@/components/ui/button";
@@ -24,17 +25,17 @@ interface LinkRow {
 export function SharePanel({ projectId, params }: { projectId: string; params: Record<string, string> }) {
   const qc = useQueryClient();
   const [created, setCreated] = useState<{ url: string; expiresAt: string } | null>(null);
-  const links = useQuery({ queryKey: ["share-links", projectId], queryFn: () => fetchJson<{ items: LinkRow[] }>(`/api/projects/${projectId}/share-links`) });
+  const links = useQuery({ queryKey: shareLinkKeys.all(projectId), queryFn: () => fetchJson<{ items: LinkRow[] }>(`/api/projects/${projectId}/share-links`) });
   const create = useMutation({
     mutationFn: (body: { label: string; expiresInDays: number }) => fetchJson<{ url: string; expiresAt: string }>(`/api/projects/${projectId}/share-links`, { method: "POST", json: { ...body, filter: params } }),
     onSuccess: (r) => {
       setCreated(r);
-      void qc.invalidateQueries({ queryKey: ["share-links", projectId] });
+      void qc.invalidateQueries({ queryKey: shareLinkKeys.all(projectId) });
     },
   });
   const revoke = useMutation({
     mutationFn: (id: string) => fetchJson(`/api/projects/${projectId}/share-links/${id}`, { method: "DELETE" }),
-    onSuccess: () => qc.invalidateQueries({ queryKey: ["share-links", projectId] }),
+    onSuccess: () => qc.invalidateQueries({ queryKey: shareLinkKeys.all(projectId) }),
   });
   const err = (create.error ?? revoke.error) as ApiError | null;
   return (

@@ -1,6 +1,7 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
+import { phaseMapKeys } from "@/lib/client/query-keys";
 import Link from "next/link";
 import { Badge } from "@/components/ui/badge";
 import { fetchJson } from "@/lib/client/fetch-json";
@@ -39,7 +40,7 @@ interface StationDetail {
 /** The selected station: its matching samples, their confirmed phases and candidates, links to samples and scans. */
 export function StationPanel({ projectId, stationKey, query, onClose }: { projectId: string; stationKey: string; query: string; onClose: () => void }) {
   const { data, error, isPending } = useQuery({
-    queryKey: ["phase-map-station", projectId, stationKey, query],
+    queryKey: phaseMapKeys.station(projectId, stationKey, query),
     queryFn: () => fetchJson<StationDetail>(`/api/projects/${projectId}/phase-map/stations/${encodeURIComponent(stationKey)}?${query}`),
   });
   return (

@@ -1,6 +1,7 @@
 "use client";
 
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
+import { phaseMapKeys } from "@/lib/client/query-keys";
 import { useSearchParams } from "next/navigation";
 import { useMemo } from "react";
 import { fetchJson } from "@/lib/client/fetch-json";
@@ -20,7 +21,7 @@ export function usePhaseFilterQuery(): { query: string; params: Record<string, s
 
 export function usePhaseMap(projectId: string, query: string) {
   return useQuery({
-    queryKey: ["phase-map", projectId, query],
+    queryKey: phaseMapKeys.map(projectId, query),
     queryFn: () => fetchJson<PhaseMapData>(`/api/projects/${projectId}/phase-map?${query}`),
     placeholderData: keepPreviousData,
   });
@@ -34,7 +35,7 @@ export function useMineralOptions(projectId: string, params: Record<string, stri
   delete rest.phase;
   const q = new URLSearchParams(rest).toString();
   return useQuery({
-    queryKey: ["phase-map-minerals", projectId, q],
+    queryKey: phaseMapKeys.minerals(projectId, q),
     queryFn: () => fetchJson<{ items: MineralOption[] }>(`/api/projects/${projectId}/phase-map/minerals?${q}`),
     staleTime: 60_000,
   });

@@ -1,6 +1,7 @@
 "use client";
 
 import { useMutation, useQuery, useQueryClient } from "@tanstack/react-query";
+import { scanKeys } from "@/lib/client/query-keys";
 import { useState } from "react";
 import { Button } from "@/components/ui/button";
 import { Card } from "@/components/ui/card";
@@ -28,7 +29,7 @@ interface Version {
  */
 export function SignOffHistory({ projectId, scanId }: { projectId: string; scanId: string }) {
   const qc = useQueryClient();
-  const key = ["scan", projectId, scanId, "sign-offs"];
+  const key = scanKeys.signOffs(projectId, scanId);
   const { data } = useQuery({ queryKey: key, queryFn: () => fetchJson<{ items: Version[]; canReopen: boolean }>(`/api/projects/${projectId}/scans/${scanId}/sign-offs`) });
   const [open, setOpen] = useState(false);
   const [reason, setReason] = useState("");
@@ -37,7 +38,7 @@ export function SignOffHistory({ projectId, scanId }: { projectId: string; scanI
     onSuccess: async () => {
       setOpen(false);
       setReason("");
-      await qc.invalidateQueries({ queryKey: ["scan", projectId, scanId] });
+      await qc.invalidateQueries({ queryKey: scanKeys.detail(projectId, scanId) });
     },
   });
   if (!data || data.items.length === 0) return null;

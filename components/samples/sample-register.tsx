@@ -1,6 +1,7 @@
 "use client";
 
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
+import { sampleKeys } from "@/lib/client/query-keys";
 import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type RowSelectionState, type VisibilityState } from "@tanstack/react-table";
 import Link from "next/link";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
@@ -55,7 +56,7 @@ export function SampleRegister({ projectId, children }: { projectId: string; chi
   const [visibility, setVisibility] = useState<VisibilityState>({ alteration: false, collectorName: false, igsn: false });
 
   const { data, error, isFetching } = useQuery({
-    queryKey: ["samples", projectId, query],
+    queryKey: sampleKeys.register(projectId, query),
     queryFn: () => fetchJson<Page>(`/api/projects/${projectId}/samples?${query}`),
     placeholderData: keepPreviousData,
   });

@@ -1,6 +1,7 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
+import { referenceKeys } from "@/lib/client/query-keys";
 import { useId, useState } from "react";
 import { Button } from "@/components/ui/button";
 import { inputClass } from "@/components/ui/field";
@@ -40,7 +41,7 @@ export function AddPhase({
   const [picked, setPicked] = useState<RefItem | null>(null);
   const [note, setNote] = useState("");
   const { data, isFetching } = useQuery({
-    queryKey: ["reference-search", q],
+    queryKey: referenceKeys.search(q),
     queryFn: () => fetchJson<{ items: RefItem[] }>(`/api/reference-phases?pageSize=12&q=${encodeURIComponent(q)}`),
     enabled: q.trim().length >= 2 && !picked,
   });

@@ -1,6 +1,7 @@
 "use client";
 
 import { keepPreviousData, useQuery, useQueryClient } from "@tanstack/react-query";
+import { referenceKeys } from "@/lib/client/query-keys";
 import Link from "next/link";
 import { useId, useState } from "react";
 import { Badge } from "@/components/ui/badge";
@@ -98,13 +99,13 @@ export function ReferenceLibrary({ canImport }: { canImport: boolean }) {
   const [source, setSource] = useState("");
   const params = new URLSearchParams({ pageSize: "500", ...(q && { q }), ...(hazard && { hazard }), ...(element && { element }), ...(source && { source }) });
   const { data, isLoading, error } = useQuery({
-    queryKey: ["reference-phases", params.toString()],
+    queryKey: referenceKeys.list(params.toString()),
     queryFn: () => fetchJson<{ items: RefItem[]; total: number }>(`/api/reference-phases?${params}`),
     placeholderData: keepPreviousData,
   });
   return (
     <div className="space-y-4">
-      {canImport && <CifImport onDone={() => void qc.invalidateQueries({ queryKey: ["reference-phases"] })} />}
+      {canImport && <CifImport onDone={() => void qc.invalidateQueries({ queryKey: referenceKeys.all() })} />}
       <div className="flex flex-wrap items-end gap-3" role="search">
         <div>
           <label htmlFor={`${id}-q`} className="block text-sm font-medium">

@@ -1,6 +1,7 @@
 "use client";
 
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
+import { referenceKeys } from "@/lib/client/query-keys";
 import { useId, useState } from "react";
 import { HazardCautions } from "@/components/cautions";
 import { Badge } from "@/components/ui/badge";
@@ -75,7 +76,7 @@ export function ReferencePatternView({ phase }: { phase: PhaseInfo }) {
   const valid = anode !== "custom" || (wl > 0.1 && wl < 5);
   const query = anode === "custom" ? `wavelength=${wl}` : `anode=${anode}`;
   const { data, isFetching, error } = useQuery({
-    queryKey: ["reference-pattern-view", phase.id, query],
+    queryKey: referenceKeys.view(phase.id, query),
     queryFn: () => fetchJson<PatternResponse>(`/api/reference-phases/${phase.id}?${query}&twoThetaMax=100`),
     enabled: valid,
     placeholderData: keepPreviousData,

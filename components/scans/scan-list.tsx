@@ -1,6 +1,7 @@
 "use client";
 
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
+import { scanKeys } from "@/lib/client/query-keys";
 import Link from "next/link";
 import { useState } from "react";
 import { Badge } from "@/components/ui/badge";
@@ -21,7 +22,7 @@ export function ScanList({ projectId }: { projectId: string }) {
   const [status, setStatus] = useState<ScanStatus | "">("");
   const [page, setPage] = useState(1);
   const { data, error, isLoading } = useQuery({
-    queryKey: ["scans", projectId, status, page],
+    queryKey: scanKeys.list(projectId, status, page),
     queryFn: () => fetchJson<Page>(`/api/projects/${projectId}/scans?page=${page}&pageSize=50${status ? `&status=${status}` : ""}`),
     placeholderData: keepPreviousData,
     refetchInterval: (q) => (q.state.data?.items.some((i) => isPending(i.status, i.progress)) ? 1500 : false),

@@ -1,6 +1,7 @@
 "use client";
 
 import { useMutation, useQueries, useQuery, useQueryClient } from "@tanstack/react-query";
+import { referenceKeys, scanKeys } from "@/lib/client/query-keys";
 import Link from "next/link";
 import { usePathname, useRouter, useSearchParams } from "next/navigation";
 import { useMemo, useState } from "react";
@@ -64,7 +65,7 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
   const pathname = usePathname();
   const runParam = search.get("run");
   const qc = useQueryClient();
-  const key = ["scan", projectId, scanId, runParam];
+  const key = scanKeys.run(projectId, scanId, runParam);
   const { data, error, isLoading } = useQuery({
     queryKey: key,
     queryFn: () => fetchJson<ScanDetail>(`/api/projects/${projectId}/scans/${scanId}${runParam ? `?run=${encodeURIComponent(runParam)}` : ""}`),
@@ -76,7 +77,7 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
   const [overlayIds, setOverlayIds] = useState<string[]>([]);
   const [busyId, setBusyId] = useState<string | null>(null);
   const [fitChange, setFitChange] = useState<FitChange | null>(null);
-  const invalidate = () => qc.invalidateQueries({ queryKey: ["scan", projectId, scanId] });
+  const invalidate = () => qc.invalidateQueries({ queryKey: scanKeys.detail(projectId, scanId) });
   const base = `/api/projects/${projectId}/scans/${scanId}`;
 
   const decide = useMutation({
@@ -115,7 +116,7 @@ export function ScanReview({ projectId, scanId }: { projectId: string; scanId: s
   const lastTwoTheta = profile ? profile.twoTheta[profile.twoTheta.length - 1] : 90;
   const refQueries = useQueries({
     queries: overlayIds.map((id) => ({
-      queryKey: ["reference-pattern", id, profile?.wavelength, Math.ceil(lastTwoTheta)],
+      queryKey: referenceKeys.pattern(id, profile?.wavelength, Math.ceil(lastTwoTheta)),
       queryFn: () => fetchJson<RefPattern>(`/api/reference-phases/${id}?wavelength=${profile!.wavelength}&twoThetaMax=${Math.min(160, Math.ceil(lastTwoTheta) + 1)}`),
       enabled: !!profile,
       staleTime: Infinity,

@@ -1,6 +1,7 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
+import { sampleKeys } from "@/lib/client/query-keys";
 import { useRouter } from "next/navigation";
 import { useId, useState } from "react";
 import { Button } from "@/components/ui/button";
@@ -86,7 +87,7 @@ function SamplePicker({ projectId, value, onChange, error }: { projectId: string
   const id = useId();
   const [q, setQ] = useState("");
   const { data } = useQuery({
-    queryKey: ["sample-search", projectId, q],
+    queryKey: sampleKeys.search(projectId, q),
     queryFn: () => fetchJson<{ items: SampleHit[] }>(`/api/projects/${projectId}/samples?pageSize=10&q=${encodeURIComponent(q)}`),
     enabled: q.trim().length >= 2 && !value,
   });

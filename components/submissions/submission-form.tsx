@@ -1,6 +1,7 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
+import { sampleKeys } from "@/lib/client/query-keys";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { AsbestosBanner } from "@/components/submissions/lab-cautions";
@@ -38,7 +39,7 @@ export function SubmissionForm({ projectId, defaultLabEmail, preselected }: { pr
   const [pending, setPending] = useState(false);
 
   const results = useQuery({
-    queryKey: ["submission-picker", projectId, query],
+    queryKey: sampleKeys.picker(projectId, query),
     queryFn: () => fetchJson<{ items: PickSample[]; total: number }>(`/api/projects/${projectId}/samples?pageSize=50&sort=code${query ? `&q=${encodeURIComponent(query)}` : ""}`),
   });
   const pickedIds = new Set(picked.map((p) => p.id));
