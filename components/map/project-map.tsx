@@ -2,6 +2,7 @@
 
 import "leaflet/dist/leaflet.css";
 import { useQueryClient } from "@tanstack/react-query";
+import { sampleKeys, stationKeys } from "@/lib/client/query-keys";
 import type L from "leaflet";
 import Link from "next/link";
 import { useRouter } from "next/navigation";
@@ -121,8 +122,8 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
       if (stale) setModeKind({ kind: "browse" });
     } finally {
       setMoving(false);
-      await qc.invalidateQueries({ queryKey: ["stations", projectId] });
-      await qc.invalidateQueries({ queryKey: ["samples", projectId] });
+      await qc.invalidateQueries({ queryKey: stationKeys.all(projectId) });
+      await qc.invalidateQueries({ queryKey: sampleKeys.all(projectId) });
     }
   }
 
@@ -234,7 +235,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
             onCreated={async (s) => {
               setNotice({ tone: "ok", text: `Station ${s.code} created.` });
               setModeKind({ kind: "browse" });
-              await qc.invalidateQueries({ queryKey: ["stations", projectId] });
+              await qc.invalidateQueries({ queryKey: stationKeys.all(projectId) });
             }}
           />
         )}

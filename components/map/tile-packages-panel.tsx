@@ -1,6 +1,7 @@
 "use client";
 
 import { useMutation, useQueryClient } from "@tanstack/react-query";
+import { tilePackageKeys } from "@/lib/client/query-keys";
 import { useState } from "react";
 import { buttonClass } from "@/components/ui/button";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
@@ -10,7 +11,7 @@ import type { TilePackageInfo } from "./types";
 export function TilePackagesPanel({ projectId, packages, canManage }: { projectId: string; packages: TilePackageInfo[]; canManage: boolean }) {
   const qc = useQueryClient();
   const [problem, setProblem] = useState<string | null>(null);
-  const refresh = () => qc.invalidateQueries({ queryKey: ["tile-packages", projectId] });
+  const refresh = () => qc.invalidateQueries({ queryKey: tilePackageKeys.all(projectId) });
 
   const upload = useMutation({
     mutationFn: (file: File) =>

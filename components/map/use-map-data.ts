@@ -1,6 +1,7 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
+import { sampleKeys, stationKeys, tilePackageKeys } from "@/lib/client/query-keys";
 import { fetchJson } from "@/lib/client/fetch-json";
 import type { MapSample, MapStation, TilePackageInfo } from "./types";
 
@@ -12,7 +13,7 @@ interface SampleFeature {
 /** Stations of the project (`{items, total}`, up to 2,000). */
 export function useStations(projectId: string) {
   return useQuery({
-    queryKey: ["stations", projectId, "map"],
+    queryKey: stationKeys.map(projectId),
     queryFn: async () => {
       const body = await fetchJson<unknown>(`/api/projects/${projectId}/stations?limit=2000`);
       const list = (Array.isArray(body) ? body : ((body as { items?: unknown[] })?.items ?? [])) as MapStation[];
@@ -24,7 +25,7 @@ export function useStations(projectId: string) {
 /** Located samples matching the register filter `filterQuery`, read from the GeoJSON export. */
 export function useMapSamples(projectId: string, filterQuery: string) {
   return useQuery({
-    queryKey: ["samples", projectId, "map", filterQuery],
+    queryKey: sampleKeys.map(projectId, filterQuery),
     queryFn: async () => {
       const fc = await fetchJson<{ features: SampleFeature[] }>(`/api/projects/${projectId}/samples/export?format=geojson${filterQuery ? `&${filterQuery}` : ""}`);
       const out: MapSample[] = [];
@@ -49,7 +50,7 @@ export function useMapSamples(projectId: string, filterQuery: string) {
 
 export function useTilePackages(projectId: string) {
   return useQuery({
-    queryKey: ["tile-packages", projectId],
+    queryKey: tilePackageKeys.all(projectId),
     queryFn: async () => (await fetchJson<{ items: TilePackageInfo[] }>(`/api/projects/${projectId}/tile-packages`)).items,
   });
 }
