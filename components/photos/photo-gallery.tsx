@@ -1,6 +1,7 @@
 "use client";
 
 import { useQuery, useQueryClient } from "@tanstack/react-query";
+import { photoKeys } from "@/lib/client/query-keys";
 import { useRouter } from "next/navigation";
 import { useRef, useState } from "react";
 import { Badge } from "@/components/ui/badge";
@@ -154,7 +155,7 @@ export function PhotoGallery({
 }) {
   const qc = useQueryClient();
   const base = "sampleId" in owner ? `/api/projects/${projectId}/samples/${owner.sampleId}/photos` : `/api/projects/${projectId}/stations/${owner.stationId}/photos`;
-  const key = ["photos", projectId, "sampleId" in owner ? owner.sampleId : owner.stationId];
+  const key = photoKeys.owner(projectId, owner);
   const { data, error, isLoading } = useQuery({ queryKey: key, queryFn: () => fetchJson<{ items: Photo[] }>(base) });
   const [openId, setOpenId] = useState<string | null>(null);
   const dialog = useRef<HTMLDialogElement>(null);
