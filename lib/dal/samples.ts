@@ -1,11 +1,12 @@
 import "server-only";
 import { and, asc, count, desc, eq, gte, lt, or, sql, type AnyColumn, type SQL } from "drizzle-orm";
 import { getDb } from "@/db";
-import { custodyEvents, projectMembers, projects, samples, stations } from "@/db/schema";
+import { custodyEvents, projectMembers, samples, stations } from "@/db/schema";
 import { formatCodeFromPattern } from "@/lib/validation/project";
 import { sampleCreateSchema, samplePatchSchema, type SampleListQuery } from "@/lib/validation/sample";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
+import { checkReservedCode, nextFreeSampleCode } from "./code-blocks";
 import { conflict, invalid, notFound, type AppError } from "./errors";
 import { createOnce, idempotencyFor } from "./idempotency";
 import { validateInput } from "./validate";
@@ -123,8 +124,12 @@ export function isUniqueViolation(err: unknown, column: string): boolean {
   return msg.includes("UNIQUE") && msg.includes(column);
 }
 
-/** Creates a sample; issues the next code from the project sequence when none is given. Replay-safe with a client id or idempotency key (lib/dal/idempotency.ts). */
-export async function createSample(actor: Actor, projectId: string, raw: unknown, opts: { idempotencyKey?: string | null } = {}): Promise<SampleRow> {
+/**
+ * Creates a sample; issues the next free code from the project sequence when none is given (codes reserved for a
+ * device are skipped). A code reserved for a device is accepted only from that device's account (lib/dal/code-blocks.ts).
+ * Replay-safe with a client id or idempotency key (lib/dal/idempotency.ts).
+ */
+export async function createSample(actor: Actor, projectId: string, raw: unknown, opts: { idempotencyKey?: string | null; deviceId?: string | null } = {}): Promise<SampleRow> {
   const access = await authorize(actor, projectId, "sample.write");
   const input = validateInput(sampleCreateSchema, raw);
   const db = getDb();
@@ -132,21 +137,15 @@ export async function createSample(actor: Actor, projectId: string, raw: unknown
   try {
     return await createOnce<SampleRow>(db, actor, idem, "samples.id", "sample", (remember) => db.transaction(async (tx) => {
       await assertStationInProject(tx, projectId, input.stationId);
-      let code = input.code;
-      if (!code) {
-        const [p] = await tx
-          .update(projects)
-          .set({ sampleSeq: sql`${projects.sampleSeq} + 1` })
-          .where(eq(projects.id, projectId))
-          .returning({ seq: projects.sampleSeq, pattern: projects.sampleCodePattern });
-        code = formatCodeFromPattern(p.pattern, access.projectCode, p.seq);
-      }
+      const code = input.code || (await nextFreeSampleCode(tx, projectId, access.projectCode));
+      if (input.code) await checkReservedCode(tx, actor, projectId, input.code, opts.deviceId ?? null);
       const { planned, ...fields } = input;
       const status = planned ? ("planned" as const) : ("collected" as const);
       const [row] = await tx
         .insert(samples)
         .values({ ...fields, code, projectId, status, createdBy: actor.userId, collectorId: input.collectorName ? null : actor.userId })
         .returning();
+      if (input.code) await checkReservedCode(tx, actor, projectId, input.code, opts.deviceId ?? null, { sampleId: row.id });
       // The status follows the events: a sample registered as taken gets its collection event in the same write.
       if (!planned) {
         await tx.insert(custodyEvents).values({
@@ -213,6 +212,7 @@ export async function updateSample(actor: Actor, projectId: string, sampleId: st
         });
       }
       await assertStationInProject(tx, projectId, changes.stationId);
+      if (changes.code && changes.code !== before.code) await checkReservedCode(tx, actor, projectId, changes.code, null, { sampleId });
       const lat = changes.lat !== undefined ? changes.lat : before.lat;
       const lon = changes.lon !== undefined ? changes.lon : before.lon;
       if ((lat == null) !== (lon == null)) throw invalid("Give both latitude and longitude, or neither.", { lon: ["Give both latitude and longitude, or neither."] });
