@@ -34,6 +34,8 @@ export interface OutboxItem {
   createdAt: number;
   /** The account that saved it on this device; only that account's session sends it. */
   userId: string | null;
+  /** Extra request headers, e.g. the device id a reserved sample code belongs to (lib/client/code-block.ts). */
+  headers?: Record<string, string>;
 }
 
 interface SyncMeta {
@@ -70,7 +72,7 @@ const path = (item: Pick<OutboxItem, "projectId" | "kind" | "action" | "recordId
   `/api/projects/${item.projectId}/${item.kind === "station" ? "stations" : "samples"}${item.action === "update" ? `/${item.recordId}` : ""}`;
 
 /** Puts a create or edit in the outbox. An edit of a record still queued for creation is folded into that create. */
-export async function enqueue(item: Pick<OutboxItem, "projectId" | "kind" | "action" | "recordId" | "label" | "body"> & { opId?: string }): Promise<OutboxItem> {
+export async function enqueue(item: Pick<OutboxItem, "projectId" | "kind" | "action" | "recordId" | "label" | "body" | "headers"> & { opId?: string }): Promise<OutboxItem> {
   const d = outboxDb();
   return d.transaction("rw", d.items, async () => {
     if (item.action === "update") {
@@ -97,6 +99,7 @@ export async function enqueue(item: Pick<OutboxItem, "projectId" | "kind" | "act
       serverRecord: null,
       createdAt: Date.now(),
       userId: currentUserId,
+      ...(item.headers && { headers: item.headers }),
     };
     await d.items.put(row);
     return row;
@@ -122,7 +125,7 @@ export async function sendItem(item: OutboxItem, fetchImpl: typeof fetch = fetch
   try {
     const res = await fetchImpl(path(item), {
       method: item.action === "create" ? "POST" : "PATCH",
-      headers: { "content-type": "application/json", "idempotency-key": item.opId },
+      headers: { ...item.headers, "content-type": "application/json", "idempotency-key": item.opId },
       body: JSON.stringify(item.body),
       credentials: "same-origin",
     });
