@@ -8,6 +8,7 @@ import { useDeviceZone } from "@/components/stations/use-device-zone";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { reservedCodeForOfflineSample } from "@/lib/client/code-block";
 import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
 import { SAMPLE_TYPE_LABELS } from "@/lib/format";
 import type { SampleType } from "@/lib/vocabulary";
@@ -99,6 +100,9 @@ export function QuickCapture({ projectId, stations, defaultZone }: { projectId: 
       ...(stationId && { stationId }),
       ...(fix && { lat: fix.lat, lon: fix.lon, horizontalAccuracyM: fix.accuracy, locationSource: "device_gnss", locationFixedAt: fix.fixedAt }),
     };
+    // Known to be offline and no tag typed: the next code reserved for this device (provisional until synced).
+    const reserved = !navigator.onLine && !body.code ? await reservedCodeForOfflineSample(projectId) : null;
+    if (reserved) body.code = reserved.code;
     try {
       const saved = await fetchJson<{ id: string }>(`/api/projects/${projectId}/samples`, { method: "POST", json: body, headers: { "idempotency-key": clientId } });
       if (photo) {
@@ -109,7 +113,8 @@ export function QuickCapture({ projectId, stations, defaultZone }: { projectId: 
       router.push(`/projects/${projectId}/samples/${saved.id}`);
     } catch (e) {
       if (!(e instanceof ApiError) && isNetworkFailure(e)) {
-        await enqueue({ projectId, kind: "sample", action: "create", recordId: clientId, opId: clientId, label: `New sample (${tag.trim() ? `tag ${tag.trim().toUpperCase()}` : "code issued on sync"})`, body });
+        const label = reserved ? `code ${reserved.code}, provisional until synced` : tag.trim() ? `tag ${tag.trim().toUpperCase()}` : "code issued on sync";
+        await enqueue({ projectId, kind: "sample", action: "create", recordId: clientId, opId: clientId, label: `New sample (${label})`, body, ...(reserved && { headers: reserved.headers }) });
         router.push(`/projects/${projectId}/sync`);
         return;
       }
@@ -193,7 +198,7 @@ export function QuickCapture({ projectId, stations, defaultZone }: { projectId: 
       </fieldset>
 
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field label="Tag number (pre-printed, optional)" htmlFor="qc-tag" hint="Leave empty and the next project code is issued when the sample reaches the server.">
+        <Field label="Tag number (pre-printed, optional)" htmlFor="qc-tag" hint="Leave empty: offline, the next code reserved for this device is used (see Sync); online, the server issues the next project code.">
           <input id="qc-tag" className={inputClass} value={tag} onChange={(e) => setTag(e.target.value)} autoComplete="off" autoCapitalize="characters" />
         </Field>
         <Field label="Station (optional)" htmlFor="qc-station">

@@ -12,6 +12,7 @@ import { useDeviceZone } from "@/components/stations/use-device-zone";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { reservedCodeForOfflineSample } from "@/lib/client/code-block";
 import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
 import { SAMPLE_TYPE_LABELS } from "@/lib/format";
 import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo";
@@ -205,6 +206,9 @@ export function SampleForm({
     const body = toBody(values, creating);
     // A create carries its client id and key, so a send whose answer was lost can be replayed (lib/client/outbox.ts).
     const json: Record<string, unknown> = creating ? { ...body, id: clientId } : { ...body, version: version ?? values.version };
+    // Known to be offline and no code typed: the next code reserved for this device (provisional until synced).
+    const reserved = creating && !json.code && !navigator.onLine ? await reservedCodeForOfflineSample(projectId) : null;
+    if (reserved) json.code = reserved.code;
     try {
       const saved = creating
         ? await fetchJson<SampleRecord>(`/api/projects/${projectId}/samples`, { method: "POST", json, headers: { "idempotency-key": clientId } })
@@ -213,7 +217,7 @@ export function SampleForm({
       router.refresh();
     } catch (e) {
       if (!(e instanceof ApiError) && isNetworkFailure(e)) {
-        const tag = typeof json.code === "string" && json.code ? `tag ${json.code}` : "code issued on sync";
+        const tag = reserved ? `code ${reserved.code}, provisional until synced` : typeof json.code === "string" && json.code ? `tag ${json.code}` : "code issued on sync";
         await enqueue({
           projectId,
           kind: "sample",
@@ -222,6 +226,7 @@ export function SampleForm({
           label: creating ? `New sample (${tag})` : `Edit of ${sample!.code}`,
           body: json,
           ...(creating && { opId: clientId }),
+          ...(reserved && { headers: reserved.headers }),
         });
         router.push(`/projects/${projectId}/sync`);
         return;

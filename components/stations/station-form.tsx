@@ -7,6 +7,7 @@ import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
 import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo";
 import { stationCreateSchema, stationPatchSchema } from "@/lib/validation/station";
 import { ConflictPanel, type ConflictField } from "./conflict-panel";
@@ -96,6 +97,8 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
   const { register, handleSubmit, setValue, control, setError, getValues, reset, formState } = form;
   const [general, setGeneral] = useState<string[]>([]);
   const [conflict, setConflict] = useState<StationRecord | null>(null);
+  const [clientId] = useState(newClientId);
+  const [queued, setQueued] = useState(false);
   // Wall time as typed; shown in the device zone (the stored value is UTC).
   const [typedObserved, setTypedObserved] = useState<string | null>(null);
   const observedAt = useWatch({ control, name: "observedAt" });
@@ -116,13 +119,29 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
   async function save(values: StationFormValues, version?: number) {
     setGeneral([]);
     const body = toBody(values, editing);
+    // An edit carries the version it was made against; a create its client id and key (lib/client/outbox.ts).
+    const json = editing ? { ...body, version: version ?? values.version } : { ...body, id: clientId };
     try {
       const saved = editing
-        ? await fetchJson<StationRecord>(`/api/projects/${projectId}/stations/${station!.id}`, { method: "PATCH", json: { ...body, version: version ?? values.version } })
-        : await fetchJson<StationRecord>(`/api/projects/${projectId}/stations`, { method: "POST", json: body });
+        ? await fetchJson<StationRecord>(`/api/projects/${projectId}/stations/${station!.id}`, { method: "PATCH", json })
+        : await fetchJson<StationRecord>(`/api/projects/${projectId}/stations`, { method: "POST", json, headers: { "idempotency-key": clientId } });
       router.push(`/projects/${projectId}/stations/${saved.id}`);
       router.refresh();
     } catch (e) {
+      if (!(e instanceof ApiError) && isNetworkFailure(e)) {
+        // No connection: kept on this device and sent later; a stale edit comes back as a conflict to resolve on the sync page.
+        await enqueue({
+          projectId,
+          kind: "station",
+          action: editing ? "update" : "create",
+          recordId: editing ? station!.id : clientId,
+          label: editing ? `Edit of station ${station!.code}` : `New station${body.name ? ` "${String(body.name)}"` : ""}`,
+          body: json,
+          ...(!editing && { opId: clientId }),
+        });
+        setQueued(true);
+        return;
+      }
       if (e instanceof ApiError && e.status === 409 && e.details?.current) {
         setConflict(e.details.current as StationRecord);
         return;
@@ -214,6 +233,15 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
             <p key={g}>{g}</p>
           ))}
         </div>
+      )}
+      {queued && (
+        <p role="status" className="rounded-md border border-line bg-stone p-3 text-sm" data-testid="station-queued">
+          No connection: the {editing ? "edit" : "station"} is saved on this device and will be sent when you are back online.{" "}
+          <a className="underline" href={`/projects/${projectId}/sync`}>
+            See Sync
+          </a>
+          .
+        </p>
       )}
       <div className="flex flex-wrap gap-2">
         <Button type="submit" disabled={formState.isSubmitting}>

@@ -4,7 +4,9 @@ import { useEffect, useState } from "react";
 import { ConflictPanel, type ConflictField } from "@/components/stations/conflict-panel";
 import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
+import { setCodeBlockUser, topUpCodeBlock } from "@/lib/client/code-block";
 import { discard, keepMine, requeue, setOutboxUser, syncProject, watchOutbox, type OutboxItem } from "@/lib/client/outbox";
+import { CodeBlockSummary } from "./code-block-summary";
 import { useOutbox } from "./use-outbox";
 
 const FIELDS: ConflictField[] = [
@@ -27,7 +29,7 @@ const STATE_LABEL: Record<OutboxItem["state"], string> = { queued: "queued", sen
 const TONE = { queued: "brand", sending: "brand", failed: "danger", conflict: "oxide" } as const;
 
 /** The outbox of one project: what is waiting on this device, what failed and why, conflicts side by side, last sync. */
-export function SyncPanel({ projectId, userId }: { projectId: string; userId: string }) {
+export function SyncPanel({ projectId, userId, canReserve = false }: { projectId: string; userId: string; canReserve?: boolean }) {
   const { items, meta, online } = useOutbox(projectId);
   const [busy, setBusy] = useState(false);
   const count = (s: OutboxItem["state"]) => items.filter((i) => i.state === s).length;
@@ -94,17 +96,21 @@ export function SyncPanel({ projectId, userId }: { projectId: string; userId: st
           ))}
         </ul>
       )}
+      {canReserve && <CodeBlockSummary projectId={projectId} userId={userId} online={online} />}
     </div>
   );
 }
 
 /** Sends the outbox when the connection returns, and every minute while online. Mounted once in the project shell. */
-export function OutboxAutoSync({ projectId, userId }: { projectId: string; userId: string }) {
+export function OutboxAutoSync({ projectId, userId, canReserve = false }: { projectId: string; userId: string; canReserve?: boolean }) {
   useEffect(() => {
     setOutboxUser(userId);
+    setCodeBlockUser(userId);
     const run = () => {
       if (!navigator.onLine) return;
       void syncProject(projectId).catch(() => undefined);
+      // Sample codes for offline work: reserve a block for this device when it has few left.
+      if (canReserve) void topUpCodeBlock(projectId, userId);
       warmFieldScreens(projectId);
     };
     run();
@@ -114,7 +120,7 @@ export function OutboxAutoSync({ projectId, userId }: { projectId: string; userI
       window.removeEventListener("online", run);
       window.clearInterval(t);
     };
-  }, [projectId, userId]);
+  }, [projectId, userId, canReserve]);
   return null;
 }
 

@@ -20,7 +20,7 @@ export default async function ProjectLayout({ children, params }: { children: Re
         </span>
         <OutboxBadge projectId={projectId} />
       </AppHeader>
-      <OutboxAutoSync projectId={projectId} userId={actor.userId} />
+      <OutboxAutoSync projectId={projectId} userId={actor.userId} canReserve={roleAllows(project.role, "sample.write") && !project.archivedAt} />
       <ProjectNav items={items} />
       {project.archivedAt && (
         <p role="status" className="no-print border-b border-line bg-stone px-4 py-2 text-center text-sm" data-testid="archived-banner">

@@ -1,6 +1,7 @@
 import type { Metadata } from "next";
 import { SyncPanel } from "@/components/sync/sync-panel";
 import { Card } from "@/components/ui/card";
+import { roleAllows } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
 import { currentActor, orNotFound } from "@/lib/dal/session";
 
@@ -9,7 +10,7 @@ export const metadata: Metadata = { title: "Sync" };
 export default async function SyncPage({ params }: { params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;
   const actor = await currentActor();
-  await orNotFound(getProject(actor, projectId));
+  const project = await orNotFound(getProject(actor, projectId));
   return (
     <div className="max-w-3xl space-y-4">
       <h1 className="text-2xl font-semibold">Sync</h1>
@@ -18,7 +19,7 @@ export default async function SyncPage({ params }: { params: Promise<{ projectId
         changed meanwhile is shown side by side for you to choose; nothing is overwritten silently.
       </p>
       <Card>
-        <SyncPanel projectId={projectId} userId={actor.userId} />
+        <SyncPanel projectId={projectId} userId={actor.userId} canReserve={roleAllows(project.role, "sample.write") && !project.archivedAt} />
       </Card>
     </div>
   );
