@@ -130,13 +130,16 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
     } catch (e) {
       if (!(e instanceof ApiError) && isNetworkFailure(e)) {
         // No connection: kept on this device and sent later; a stale edit comes back as a conflict to resolve on the sync page.
+        // An edit sends only the fields changed here, so fields someone else changed meanwhile are not put back.
+        const original = toBody(toForm(station), true);
+        const changed = editing ? Object.fromEntries(Object.entries(body).filter(([k, v]) => k !== "version" && JSON.stringify(v ?? null) !== JSON.stringify(original[k] ?? null))) : null;
         await enqueue({
           projectId,
           kind: "station",
           action: editing ? "update" : "create",
           recordId: editing ? station!.id : clientId,
           label: editing ? `Edit of station ${station!.code}` : `New station${body.name ? ` "${String(body.name)}"` : ""}`,
-          body: json,
+          body: changed ? { ...changed, version: json.version } : json,
           ...(!editing && { opId: clientId }),
         });
         setQueued(true);
