@@ -120,7 +120,7 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
     setGeneral([]);
     const body = toBody(values, editing);
     // An edit carries the version it was made against; a create its client id and key (lib/client/outbox.ts).
-    const json = editing ? { ...body, version: version ?? values.version } : { ...body, id: clientId };
+    const json: Record<string, unknown> = editing ? { ...body, version: version ?? values.version } : { ...body, id: clientId };
     try {
       const saved = editing
         ? await fetchJson<StationRecord>(`/api/projects/${projectId}/stations/${station!.id}`, { method: "PATCH", json })
