@@ -11,7 +11,7 @@ import { backoffDelay, classifyResponse } from "@/lib/outbox/backoff";
  * made against; a 409 becomes a conflict for a person to resolve, never an overwrite.
  */
 
-export type OutboxKind = "station" | "sample";
+export type OutboxKind = "station" | "sample" | "structure";
 export type OutboxState = "queued" | "sending" | "failed" | "conflict";
 
 export interface OutboxItem {
@@ -36,6 +36,8 @@ export interface OutboxItem {
   userId: string | null;
   /** Extra request headers, e.g. the device id a reserved sample code belongs to (lib/client/code-block.ts). */
   headers?: Record<string, string>;
+  /** The endpoint, for records nested under another (a station's structural measurements). */
+  url?: string;
 }
 
 interface SyncMeta {
@@ -68,11 +70,12 @@ export function setOutboxUser(userId: string | null): void {
   currentUserId = userId;
 }
 
-const path = (item: Pick<OutboxItem, "projectId" | "kind" | "action" | "recordId">) =>
+const path = (item: Pick<OutboxItem, "projectId" | "kind" | "action" | "recordId" | "url">) =>
+  item.url ??
   `/api/projects/${item.projectId}/${item.kind === "station" ? "stations" : "samples"}${item.action === "update" ? `/${item.recordId}` : ""}`;
 
 /** Puts a create or edit in the outbox. An edit of a record still queued for creation is folded into that create. */
-export async function enqueue(item: Pick<OutboxItem, "projectId" | "kind" | "action" | "recordId" | "label" | "body" | "headers"> & { opId?: string }): Promise<OutboxItem> {
+export async function enqueue(item: Pick<OutboxItem, "projectId" | "kind" | "action" | "recordId" | "label" | "body" | "headers" | "url"> & { opId?: string }): Promise<OutboxItem> {
   const d = outboxDb();
   return d.transaction("rw", d.items, async () => {
     if (item.action === "update") {
@@ -100,6 +103,7 @@ export async function enqueue(item: Pick<OutboxItem, "projectId" | "kind" | "act
       createdAt: Date.now(),
       userId: currentUserId,
       ...(item.headers && { headers: item.headers }),
+      ...(item.url && { url: item.url }),
     };
     await d.items.put(row);
     return row;
