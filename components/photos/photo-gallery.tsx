@@ -8,7 +8,8 @@ import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { Skeleton } from "@/components/ui/card";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { formatDistance, formatDmsPair, greatCircleDistanceM } from "@/lib/geo";
+import { formatDistance, greatCircleDistanceM } from "@/lib/geo/distance";
+import { formatDmsPair } from "@/lib/geo/dms";
 import { PhotoUploader } from "./photo-uploader";
 import type { Photo } from "./types";
 

@@ -15,7 +15,7 @@ import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { reservedCodeForOfflineSample } from "@/lib/client/code-block";
 import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
 import { SAMPLE_TYPE_LABELS } from "@/lib/format";
-import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo";
+import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo/zoned-time";
 import { emptySampleDetails, type SampleDetails } from "@/lib/validation/sample-details";
 import { sampleCreateSchema, samplePatchSchema } from "@/lib/validation/sample";
 import { SAMPLE_TYPES, type SampleType } from "@/lib/vocabulary";

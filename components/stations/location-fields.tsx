@@ -3,23 +3,16 @@
 import { useId, useState } from "react";
 import { Button } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
-import { formatDmsPair, parseLatLon, toUtm, formatUtm, UtmRangeError } from "@/lib/geo";
+import { formatDmsPair, parseLatLon } from "@/lib/geo/dms";
 import { afterManualPosition } from "@/lib/geo/position-source";
 import { ELEVATION_REFS, LOCATION_SOURCES } from "@/lib/vocabulary";
+import { UtmReadout } from "./utm-readout";
 import { ELEVATION_REF_LABELS, LOCATION_SOURCE_LABELS, type ElevationRef, type LocationSource, type LocationValue } from "./location-labels";
 
 export type { ElevationRef, LocationSource, LocationValue };
 
 const formatPair = (lat: number | null, lon: number | null) => (lat == null || lon == null ? "" : `${lat.toFixed(6)}, ${lon.toFixed(6)}`);
 const num = (s: string): number | null => (s.trim() === "" ? null : Number(s));
-
-function utmLine(lat: number, lon: number): string {
-  try {
-    return `UTM ${formatUtm(toUtm(lat, lon))} m (WGS84)`;
-  } catch (err) {
-    return err instanceof UtmRangeError ? err.message : "No UTM for this position.";
-  }
-}
 
 /** Browser geolocation error codes → what to do about it. */
 function geoMessage(err: GeolocationPositionError): string {
@@ -143,7 +136,7 @@ export function LocationFields({
       <p id={`${id}-pos-readout`} className="text-xs text-muted" aria-live="polite" data-testid="position-readout">
         {hasPos ? (
           <>
-            <span className="font-medium text-ink">{formatDmsPair(value.lat!, value.lon!)}</span> · {utmLine(value.lat!, value.lon!)}
+            <span className="font-medium text-ink">{formatDmsPair(value.lat!, value.lon!)}</span> · <UtmReadout lat={value.lat!} lon={value.lon!} />
           </>
         ) : (
           "Decimal degrees (latitude first, minus for S/W) or degrees–minutes–seconds with N/S/E/W."

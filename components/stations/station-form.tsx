@@ -8,7 +8,7 @@ import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
-import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo";
+import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo/zoned-time";
 import { stationCreateSchema, stationPatchSchema } from "@/lib/validation/station";
 import { ConflictPanel, type ConflictField } from "./conflict-panel";
 import { LocationFields, type LocationValue } from "./location-fields";

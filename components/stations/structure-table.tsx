@@ -4,7 +4,7 @@ import { useRouter } from "next/navigation";
 import { useState } from "react";
 import { Badge } from "@/components/ui/badge";
 import { fetchJson } from "@/lib/client/fetch-json";
-import { formatAttitude, poleToPlane, strikeFromDipDirection } from "@/lib/geo";
+import { formatAttitude, poleToPlane, strikeFromDipDirection } from "@/lib/geo/structure";
 import { FEATURE_LABELS } from "./structure-labels";
 
 export interface StructureItem {
