@@ -6,7 +6,8 @@ import { useState } from "react";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { Button } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
-import { fetchJson } from "@/lib/client/fetch-json";
+import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
 import { normalizeAzimuth } from "@/lib/geo/angles";
 import { angleLineToPlane, dipDirectionFromStrike, formatAttitude, lineFromRake, poleToPlane } from "@/lib/geo/structure";
 import { LINEAR_FEATURES, PLANAR_FEATURES, STRUCTURE_QUALITIES, structureCreateSchema } from "@/lib/validation/structure";
@@ -109,12 +110,23 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
     const body: Record<string, unknown> = { ...values };
     for (const [k, val] of Object.entries(body)) if (val === "" || val === undefined) delete body[k];
     if (body.azimuthRef === "true") delete body.declinationDeg;
+    // A client id and key make the create replay-safe; without a connection it waits in the outbox (lib/client/outbox.ts).
+    const id = newClientId();
+    body.id = id;
+    const url = `/api/projects/${projectId}/stations/${stationId}/structures`;
     try {
-      const row = await fetchJson<{ feature: string }>(`/api/projects/${projectId}/stations/${stationId}/structures`, { method: "POST", json: body });
+      const row = await fetchJson<{ feature: string }>(url, { method: "POST", json: body, headers: { "idempotency-key": id } });
       setSaved(`Saved ${FEATURE_LABELS[row.feature] ?? row.feature}.`);
       reset({ convention: values.convention, feature: values.feature, azimuthRef: values.azimuthRef, declinationDeg: values.declinationDeg });
       router.refresh();
     } catch (e) {
+      if (!(e instanceof ApiError) && isNetworkFailure(e)) {
+        const label = FEATURE_LABELS[values.feature] ?? values.feature;
+        await enqueue({ projectId, kind: "structure", action: "create", recordId: id, opId: id, url, label: `New measurement (${label})`, body });
+        setSaved(`No connection: the ${label.toLowerCase()} measurement is saved on this device and will be sent when you are back online (see Sync).`);
+        reset({ convention: values.convention, feature: values.feature, azimuthRef: values.azimuthRef, declinationDeg: values.declinationDeg });
+        return;
+      }
       setGeneral(applyServerErrors(e, setError, KNOWN));
     }
     },

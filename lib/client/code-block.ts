@@ -71,8 +71,8 @@ export async function reservedCodeForOfflineSample(projectId: string): Promise<{
   return code ? { code, headers: await deviceHeaders() } : null;
 }
 
-async function blocksOf(projectId: string, userId: string): Promise<StoredBlock[]> {
-  const deviceId = await getDeviceId();
+async function blocksOf(projectId: string, userId: string, knownDeviceId?: string): Promise<StoredBlock[]> {
+  const deviceId = knownDeviceId ?? (await getDeviceId());
   const rows = await store().blocks.where("[projectId+userId]").equals([projectId, userId]).toArray();
   return rows.filter((b) => b.deviceId === deviceId).sort((a, b) => a.createdAt - b.createdAt);
 }
@@ -119,6 +119,15 @@ export function topUpCodeBlock(projectId: string, userId: string, opts: { fetchI
 
 /** Live view of this device's blocks in a project, for the sync page. */
 export function watchCodeBlocks(projectId: string, userId: string, onChange: (blocks: DeviceBlock[]) => void): () => void {
-  const sub = liveQuery(() => blocksOf(projectId, userId)).subscribe({ next: onChange, error: () => undefined });
-  return () => sub.unsubscribe();
+  let stop = false;
+  let unsubscribe = () => {
+    stop = true;
+  };
+  // The device id is read (or made) first: a live query may only read.
+  void getDeviceId().then((deviceId) => {
+    if (stop) return;
+    const sub = liveQuery(() => blocksOf(projectId, userId, deviceId)).subscribe({ next: onChange, error: () => undefined });
+    unsubscribe = () => sub.unsubscribe();
+  });
+  return () => unsubscribe();
 }

@@ -1,18 +1,19 @@
 import "server-only";
 import { and, asc, eq } from "drizzle-orm";
+import { z } from "zod";
 import { getDb } from "@/db";
 import { stations, structures } from "@/db/schema";
 import { angleLineToPlane, dipDirectionFromStrike, formatAttitude, lineFromRake, normalizeAzimuth } from "@/lib/geo";
 import { structureCreateSchema, type StructureCreateInput } from "@/lib/validation/structure";
 import { authorize, type Actor } from "./actor";
 import { audit, type DbOrTx } from "./audit";
-import { invalid, notFound } from "./errors";
+import { conflict, invalid, notFound } from "./errors";
 import { createOnce, idempotencyFor } from "./idempotency";
 import { validateInput } from "./validate";
 
 export type StructureRow = typeof structures.$inferSelect;
 
-/** Largest angle between a lineation and the plane it was measured on (DOMAIN.md §2.5: |line·normal| < sin 10°). */
+/** Largest angle between a lineation and the plane it was measured on (common practice: |line·normal| < sin 10°). */
 export const LINE_IN_PLANE_TOLERANCE_DEG = 10;
 
 async function stationInProject(db: DbOrTx, projectId: string, stationId: string) {
@@ -113,5 +114,97 @@ export async function deleteStructure(actor: Actor, projectId: string, stationId
     await tx.update(structures).set({ planeId: null }).where(eq(structures.planeId, structureId));
     await tx.delete(structures).where(eq(structures.id, structureId));
     await audit(tx, actor, { projectId, action: "delete", entity: "structure", entityId: structureId, before });
+  });
+}
+
+/** One measurement with its station's code and position, for the project map's strike/dip symbols. */
+export interface MapStructure {
+  id: string;
+  stationId: string;
+  stationCode: string;
+  lat: number;
+  lon: number;
+  kind: "planar" | "linear";
+  feature: string;
+  dipDirection: number | null;
+  dip: number | null;
+  trend: number | null;
+  plunge: number | null;
+  overturned: boolean;
+  generation: string | null;
+}
+
+/** Every structural measurement of the project's stations (any member), for the map. */
+export async function listProjectStructures(actor: Actor, projectId: string): Promise<MapStructure[]> {
+  await authorize(actor, projectId, "project.read");
+  return getDb()
+    .select({
+      id: structures.id,
+      stationId: structures.stationId,
+      stationCode: stations.code,
+      lat: stations.lat,
+      lon: stations.lon,
+      kind: structures.kind,
+      feature: structures.feature,
+      dipDirection: structures.dipDirection,
+      dip: structures.dip,
+      trend: structures.trend,
+      plunge: structures.plunge,
+      overturned: structures.overturned,
+      generation: structures.generation,
+    })
+    .from(structures)
+    .innerJoin(stations, eq(structures.stationId, stations.id))
+    .where(eq(stations.projectId, projectId))
+    .orderBy(asc(stations.code), asc(structures.createdAt));
+}
+
+const versionOnly = z.object({ version: z.number({ error: "version is required." }).int().min(1, "version is required.") });
+
+/**
+ * Re-enters a measurement (any convention, as on create) if the client's version is current; a stale version gets
+ * 409 with the current record, so an edit made offline is shown beside the newer one instead of overwriting it.
+ */
+export async function updateStructure(actor: Actor, projectId: string, stationId: string, structureId: string, raw: unknown): Promise<StructureRow> {
+  await authorize(actor, projectId, "station.write");
+  const { version } = validateInput(versionOnly, raw);
+  const { version: _v, ...rest } = raw as Record<string, unknown>; // eslint-disable-line @typescript-eslint/no-unused-vars
+  const input = validateInput(structureCreateSchema, rest);
+  if (input.id && input.id !== structureId) throw invalid("The id cannot change.", { id: ["The id cannot change."] });
+  const db = getDb();
+  return db.transaction(async (tx) => {
+    await stationInProject(tx, projectId, stationId);
+    const [before] = await tx.select().from(structures).where(and(eq(structures.id, structureId), eq(structures.stationId, stationId)));
+    if (!before) throw notFound("Measurement not found.");
+    if (before.version !== version) {
+      throw conflict("This measurement was changed by someone else since you opened it. Review their version and apply your changes again.", { current: before });
+    }
+    if (input.convention === "trend_plunge" || input.convention === "rake") {
+      if (input.planeId === structureId) throw invalid("A line cannot be measured on itself.", { planeId: ["Choose a plane."] });
+    }
+    const stored = await toStored(tx, stationId, input);
+    const [row] = await tx
+      .update(structures)
+      .set({
+        feature: input.feature,
+        convention: input.convention,
+        generation: input.generation ?? null,
+        overturned: input.overturned ?? false,
+        quality: input.quality ?? null,
+        note: input.note ?? null,
+        dipDirection: null,
+        dip: null,
+        trend: null,
+        plunge: null,
+        rake: null,
+        planeId: null,
+        ...stored,
+        version: before.version + 1,
+      })
+      .where(and(eq(structures.id, structureId), eq(structures.version, version)))
+      .returning();
+    if (!row) throw conflict("This measurement was changed by someone else since you opened it.");
+    await audit(tx, actor, { projectId, action: "update", entity: "structure", entityId: structureId, before, after: row });
+    return row;
   });
 }

@@ -87,6 +87,7 @@ const ACCESS: Record<string, Access> = {
   "GET /api/projects/[projectId]/stations/[stationId]": "project.read",
   "PATCH /api/projects/[projectId]/stations/[stationId]": "station.write",
   "DELETE /api/projects/[projectId]/stations/[stationId]/structures/[structureId]": "station.write",
+  "PATCH /api/projects/[projectId]/stations/[stationId]/structures/[structureId]": "station.write",
   "GET /api/projects/[projectId]/stations/[stationId]/structures": "project.read",
   "POST /api/projects/[projectId]/stations/[stationId]/structures": "station.write",
   "GET /api/projects/[projectId]/stations": "project.read",
