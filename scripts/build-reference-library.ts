@@ -19,7 +19,7 @@ import { citationOf, crystalSystemOf, fitDataOf, lithodexComments } from "@/lib/
 
 export { citationOf, crystalSystemOf, lithodexComments };
 
-/** Cu Kα1 (Å), ITC Vol. C (2006) Table 4.2.2.6 rounded as in DOMAIN §3.1. */
+/** Cu Kα1 (Å), ITC Vol. C (2006) Table 4.2.2.6, rounded to 6 decimals. */
 export const LIBRARY_WAVELENGTH = 1.540593;
 export const LIBRARY_TWO_THETA_MAX = 100;
 export const LIBRARY_MIN_INTENSITY = 0.5;

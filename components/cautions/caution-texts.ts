@@ -1,5 +1,5 @@
 /**
- * Caution wording, as DOMAIN §6 sets it (advisory: the application defers to local regulations, site procedures
+ * Caution wording, the product's own (advisory, common practice: the application defers to local regulations, site procedures
  * and licensed/accredited practice). Keep these strings verbatim; tests and screens rely on them.
  */
 export const ASBESTOS_CAUTION =

@@ -15,7 +15,7 @@ function Box({ tone, title, children, testId, className }: { tone: "danger" | "o
   );
 }
 
-/** Asbestos-group caution (DOMAIN §6), naming the minerals that triggered it. */
+/** Asbestos-group caution naming the triggering minerals (PLM/TEM confirmation: common practice, e.g. US EPA 600/R-93/116). */
 export function AsbestosCaution({ minerals, className }: { minerals: string[]; className?: string }) {
   return (
     <Box tone="danger" testId="asbestos-caution" title={`Possible asbestiform mineral${minerals.length ? `: ${minerals.join(", ")}` : ""}`} className={className}>
@@ -24,7 +24,7 @@ export function AsbestosCaution({ minerals, className }: { minerals: string[]; c
   );
 }
 
-/** Respirable crystalline silica caution (DOMAIN §6). */
+/** Respirable crystalline silica caution (US OSHA 29 CFR 1910.1053; IARC Monograph 100C, 2012). */
 export function SilicaCaution({ minerals, className }: { minerals: string[]; className?: string }) {
   return (
     <Box tone="oxide" testId="silica-caution" title={`Respirable crystalline silica${minerals.length ? `: ${minerals.join(", ")}` : ""}`} className={className}>
@@ -33,7 +33,7 @@ export function SilicaCaution({ minerals, className }: { minerals: string[]; cla
   );
 }
 
-/** "Ranked candidates are suggestions, not an identification" (DOMAIN §6, limits of automated identification). */
+/** "Ranked candidates are suggestions, not an identification" (common practice: limits of automated identification). */
 export function CandidatesNotice({ className }: { className?: string }) {
   return (
     <Box tone="brand" testId="candidates-notice" title="Suggestions, not an identification" className={className}>

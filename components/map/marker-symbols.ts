@@ -1,6 +1,6 @@
 /**
  * Map symbols as small inline SVGs. Meaning is carried by shape (after the categorical symbol idea of
- * FGDC-STD-013-2006; DOMAIN.md §5): stations are diamonds; samples are triangles (rock: hand sample,
+ * FGDC-STD-013-2006; shapes per type: common practice): stations are diamonds; samples are triangles (rock: hand sample,
  * chip, channel, core), circles (soil), squares (stream sediment), open triangles (float: not in place),
  * crosses (other). Colour only reinforces the shape.
  */

@@ -1,4 +1,4 @@
-/** Suggested descriptive terms (DOMAIN.md §2.3); free text stays allowed. */
+/** Suggested descriptive terms (common trade terms: common practice); free text stays allowed. */
 export const LITHOLOGY_TERMS = [
   "granite", "granodiorite", "diorite", "gabbro", "rhyolite", "dacite", "andesite", "basalt", "tuff",
   "conglomerate", "sandstone", "siltstone", "mudstone", "shale", "limestone", "dolostone", "chert", "evaporite", "ironstone",

@@ -9,7 +9,7 @@ import type { SampleFormValues } from "./sample-form";
 
 type Reg = UseFormRegister<SampleFormValues>;
 
-/** The fields that belong to one sample type (DOMAIN.md §2.2). */
+/** The fields that belong to one sample type (common practice). */
 export function SampleTypeDetails({ type, register, errors }: { type: SampleType; register: Reg; errors: FieldErrors<SampleFormValues> }) {
   const e = (errors.typeDetails ?? {}) as Record<string, { message?: string } | undefined>;
   const msg = (k: string) => e[k]?.message;

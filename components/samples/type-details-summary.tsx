@@ -3,7 +3,7 @@ import { CORE_PORTION_LABELS, FLOW_STATE_LABELS, OTHER_SUBTYPE_LABELS } from "@/
 
 const join = (parts: (string | null | undefined | false)[]) => parts.filter(Boolean).join(" · ") || null;
 
-/** One line with the type-specific fields of a sample (DOMAIN.md §2.2), or null when there are none. */
+/** One line with the type-specific fields of a sample (sample types: common practice), or null when there are none. */
 export function typeDetailsSummary(d: SampleDetails | null | undefined): string | null {
   if (!d) return null;
   switch (d.kind) {

@@ -1,4 +1,4 @@
-/** Advisory safety notes for lab work (DOMAIN §6): they defer to local regulations and accredited practice. */
+/** Advisory safety notes for lab work (our own wording, common practice): they defer to local regulations and accredited practice. */
 
 export const RADIATION_NOTE =
   "Diffractometers are operated under your jurisdiction's radiation-safety regulations and your facility's licence/registration, interlocks and local rules. This application does not control instruments.";

@@ -191,7 +191,7 @@ export interface CifProblem {
   code?: string;
 }
 
-/** True for structures determined far from room conditions (DOMAIN §3.6: use ambient entries for identification). */
+/** True for structures determined far from room conditions (common practice: use ambient entries for identification). */
 function nonAmbient(s: CifStructure): string | null {
   const t = s.ambient.temperatureK;
   const p = s.ambient.pressureKPa;

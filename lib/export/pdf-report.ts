@@ -2,7 +2,7 @@
  * Register report for consultants (PDF, pdfkit): project summary, a map figure (offline basemap and
  * phase-map symbols), the confirmed phases with semi-quantitative wt%, the register table, methods
  * (anodes, processing parameters, reference structures with their published sources) and the cautions
- * of automated identification (DOMAIN §6). Pages are written as they fill, so the register is streamed.
+ * of automated identification (common practice). Pages are written as they fill, so the register is streamed.
  */
 import { existsSync } from "node:fs";
 import path from "node:path";

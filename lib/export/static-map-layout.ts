@@ -1,7 +1,7 @@
 /**
  * Layout of a static map figure: the zoom that fits the points, which tiles cover the frame and where a
  * position lands in it. Web Mercator arithmetic from lib/map/tiles; ground resolution
- * 156 543.03·cos φ / 2^z m/px at 256-px tiles (DOMAIN §5). Pure.
+ * 156 543.03·cos φ / 2^z m/px at 256-px tiles (EPSG:3857, R = 6 378 137 m: 2πR/256). Pure.
  */
 import { lonLatToWorldPixel } from "@/lib/map/tiles";
 

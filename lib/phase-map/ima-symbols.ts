@@ -2,14 +2,14 @@
  * IMA–CNMNC mineral symbols used as map and table labels. Pure data.
  *
  * Source: Warr, L.N. (2021) IMA–CNMNC approved mineral symbols. Mineralogical Magazine 85, 291–320.
- * The symbols marked "DOMAIN §5" are the ones listed in our trade notes from that paper; the others
+ * The first group (the common minerals of the phase maps) was taken from Warr (2021); the others
  * were written from memory of Warr's table and should be checked against it before a publication
  * (they are labels only: nothing is computed from them).
  */
 
 /** Lowercase IMA mineral name (as in reference_phases.mineral) → symbol. */
 export const IMA_SYMBOLS: Readonly<Record<string, string>> = {
-  // DOMAIN §5 (from Warr 2021)
+  // Common minerals (Warr 2021)
   quartz: "Qz",
   calcite: "Cal",
   dolomite: "Dol",

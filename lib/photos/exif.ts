@@ -48,7 +48,7 @@ const num = (v: unknown): number | null => {
 };
 const str = (v: unknown): string | null => (typeof v === "string" && v.trim() ? v.trim().replace(/\0+$/, "") : null);
 
-/** [deg, min, sec] → decimal degrees (EXIF stores three rationals; DOMAIN.md §2.6). */
+/** [deg, min, sec] → decimal degrees (EXIF stores three rationals; CIPA DC-008, Exif 2.32). */
 function dmsArray(v: unknown): number | null {
   if (typeof v === "number") return v;
   if (!Array.isArray(v) || v.length === 0 || !v.every((x) => typeof x === "number" && Number.isFinite(x))) return null;

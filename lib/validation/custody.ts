@@ -5,7 +5,7 @@ import { isoInstant, optionalText } from "./common";
 export type CustodyEvent = (typeof CUSTODY_EVENTS)[number];
 
 /**
- * Position of each status on the sample lifecycle (DOMAIN §1): planned → collected → dispatched → received →
+ * Position of each status on the sample lifecycle (common practice): planned → collected → dispatched → received →
  * prepared → scanned → processed → confirmed → reported → stored / returned / discarded. Stored and returned
  * share a rank (a sample can move between them); discarded is last.
  */

@@ -18,7 +18,7 @@ const optionalNumber = (schema: z.ZodNumber) => schema.nullable().optional();
 const interval = <T extends { fromM?: number | null; toM?: number | null }>(v: T) => v.fromM == null || v.toM == null || v.toM > v.fromM;
 const intervalMessage = { message: "“To” must be deeper/further than “from”.", path: ["toM"] };
 
-/** Fields that only some sample types have (DOMAIN.md §2.2). `kind` repeats the sample type. */
+/** Fields that only some sample types have (common practice). `kind` repeats the sample type. */
 export const sampleDetailsSchema = z.discriminatedUnion(
   "kind",
   [

@@ -30,7 +30,7 @@ const sampleFields = {
   horizontalAccuracyM: z.number().min(0, "Accuracy cannot be negative.").max(100000).nullable().optional(),
   locationSource: z.enum(LOCATION_SOURCES).nullable().optional(),
   locationFixedAt: isoInstant.nullable().optional(),
-  /** Fields of the sample type (DOMAIN.md §2.2); `kind` must equal sampleType. */
+  /** Fields of the sample type (common practice); `kind` must equal sampleType. */
   typeDetails: sampleDetailsSchema.nullable().optional(),
   storageLocation: optionalText(200),
   /** Never writable: the status follows custody and review events. Present only to answer with a clear message. */

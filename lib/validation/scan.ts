@@ -278,11 +278,11 @@ export function matchFilesToSamples(fileNames: readonly string[], samples: reado
 }
 
 // ---------------------------------------------------------------------------------------------------------------
-// Hazard classes for the cautions (DOMAIN §6).
+// Hazard classes for the cautions (common practice; silica: US OSHA 29 CFR 1910.1053, IARC 100C).
 
-/** Species that occur in asbestiform habit (DOMAIN §6), including the trade names of their asbestos forms. */
+/** Species that occur in asbestiform habit (common practice), including the trade names of their asbestos forms. */
 export const ASBESTIFORM_MINERALS = ["chrysotile", "riebeckite", "crocidolite", "grunerite", "amosite", "anthophyllite", "tremolite", "actinolite", "erionite"] as const;
-/** Crystalline silica polymorphs (quartz and cristobalite named in DOMAIN §6; tridymite and coesite are polymorphs too). */
+/** Crystalline silica polymorphs (quartz and cristobalite, as in IARC 100C; tridymite and coesite are polymorphs too). */
 export const CRYSTALLINE_SILICA_MINERALS = ["quartz", "cristobalite", "tridymite", "coesite"] as const;
 
 /**

@@ -33,7 +33,7 @@ const planarFeature = z.enum(PLANAR_FEATURES, { error: `A plane is one of: ${PLA
 const linearFeature = z.enum(LINEAR_FEATURES, { error: `A line is one of: ${LINEAR_FEATURES.join(", ")}.` });
 
 /**
- * A structural measurement as entered (DOMAIN.md §2.5): a plane by strike/dip (right-hand rule) or dip
+ * A structural measurement as entered (common practice, e.g. Lisle & Leyshon 2004): a plane by strike/dip (right-hand rule) or dip
  * direction/dip, a line by trend/plunge or by rake on a plane measured at the same station.
  */
 export const structureCreateSchema = z

@@ -5,7 +5,7 @@ const RAD = Math.PI / 180;
 /**
  * Lp(θ) for a flat specimen in Bragg–Brentano geometry (thick specimen, random powder).
  * Without monochromator: (1 + cos²2θ) / (sin²θ·cosθ); with a monochromator crystal at 2θ_M:
- * (1 + cos²2θ_M·cos²2θ) / (sin²θ·cosθ·(1 + cos²2θ_M)) — the forms given in DOMAIN §3.5 (common practice; see
+ * (1 + cos²2θ_M·cos²2θ) / (sin²θ·cosθ·(1 + cos²2θ_M)) — the usual forms (common practice; see
  * e.g. ITC Vol. C §6.2).
  * @param twoThetaDeg - diffraction angle 2θ (°)
  * @param monochromatorTwoThetaDeg - 2θ_M of the monochromator (°); undefined for none

@@ -1,5 +1,5 @@
 /**
- * Powder diffraction pattern (d, hkl, relative integrated intensity) of a crystal structure, after DOMAIN §3.5:
+ * Powder diffraction pattern (d, hkl, relative integrated intensity) of a crystal structure (ITC Vol. C 2006 ch. 6.1/6.2):
  * positions from 1/d² = hᵀG*h; F(hkl) = Σ_j o_j·f_j(s)·exp(−B_j s²)·exp[2πi(hx_j + ky_j + lz_j)] over the
  * full cell; I = |F|²·m·Lp(θ)·P (Bragg–Brentano, thick specimen).
  */
@@ -12,7 +12,7 @@ import { marchDollase } from "./preferred-orientation";
 import { it92Coefficients } from "./scattering-factors";
 import type { CifStructure, PatternOptions } from "./types";
 
-/** Cu Kα1 (Å): ITC Vol. C (2006) Table 4.2.2.6, 1.54059292(45), rounded as in DOMAIN §3.1. */
+/** Cu Kα1 (Å): ITC Vol. C (2006) Table 4.2.2.6, 1.54059292(45), rounded to 6 decimals. */
 export const CU_KA1 = 1.540593;
 
 const DEG = 180 / Math.PI;
@@ -440,7 +440,7 @@ export function computePatternDetailed(structure: CifStructure, options: Pattern
 }
 
 /**
- * Calculated powder pattern of a structure for Bragg–Brentano geometry (DOMAIN §3.5).
+ * Calculated powder pattern of a structure for Bragg–Brentano geometry (ITC Vol. C 2006 ch. 6.1/6.2).
  *
  * - All hkl with dMin ≤ d ≤ dMax from the reciprocal metric tensor (any cell).
  * - Atoms: every operator applied to every site; coincident images of one site are one atom.

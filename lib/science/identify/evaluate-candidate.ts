@@ -1,5 +1,5 @@
 /**
- * Figure of merit of one reference against an observed peak list (search–match step 2, DOMAIN §3.4): line positions
+ * Figure of merit of one reference against an observed peak list (search–match scoring, common practice): line positions
  * within a window after a fitted common zero shift, intensity agreement, the fraction of the expected reference
  * intensity found (missing strong lines penalised) and the fraction of the still-unexplained observed intensity it
  * explains. Only reference lines inside the measured range and predicted above the detection limit are expected.
@@ -43,7 +43,7 @@ const OVER_WEIGHT = 0.3;
 // Peaks already explained by accepted phases count as available for scaling only above this residual fraction.
 const AVAILABLE_FRACTION = 0.2;
 // A matched peak is credited as explained up to this multiple of the predicted intensity (preferred orientation
-// can raise a line several-fold; DOMAIN §3.7).
+// can raise a line several-fold; Dollase 1986, J. Appl. Cryst. 19, 267).
 export const EXPLAIN_FACTOR = 3;
 
 /**

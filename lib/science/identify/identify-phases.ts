@@ -1,5 +1,5 @@
 /**
- * Multiphase search–match of an observed peak list against a reference library (DOMAIN §3.4): chemistry filter,
+ * Multiphase search–match of an observed peak list against a reference library (common practice): chemistry filter,
  * strong-line index look-up (Hanawalt, Rinn & Frevel 1938), scoring of the shortlisted references, acceptance of the
  * best confident phase, joint scaling of the accepted phases, and a new round on the unexplained peaks, until the
  * remainder is at noise level or nothing scores above the threshold. Weight fractions by RIR (Chung 1974) are

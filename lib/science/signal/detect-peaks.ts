@@ -44,7 +44,7 @@ export interface DetectedPeak {
 
 /**
  * Find peaks as local maxima of a background-subtracted (and usually smoothed, Kα2-stripped) signal that exceed
- * k·σ (common practice, k ≈ 3; DOMAIN §3.3 step 4), have a prominence ≥ `minProminenceSigma`·σ and an FWHM of at
+ * k·σ (common practice, k ≈ 3), have a prominence ≥ `minProminenceSigma`·σ and an FWHM of at
  * least `minFwhmPoints` points. Linear in the number of points times `maxSearchPoints` at most.
  * @param twoTheta - angles, ° 2θ, increasing
  * @param net - signal above background

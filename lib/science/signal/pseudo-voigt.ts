@@ -1,5 +1,5 @@
 /**
- * Area-normalised pseudo-Voigt profile `pV = η·L + (1−η)·G` with common FWHM H (DOMAIN §3.3; Thompson, Cox & Hastings
+ * Area-normalised pseudo-Voigt profile `pV = η·L + (1−η)·G` with common FWHM H (Thompson, Cox & Hastings
  * 1987 for the mixing idea): `G = (2/H)·√(ln2/π)·exp(−4·ln2·x²/H²)`, `L = (2/(πH)) / (1 + 4x²/H²)`, x = 2θ − 2θ₀.
  */
 

@@ -39,7 +39,7 @@ export interface ScherrerResult {
 
 /**
  * Scherrer (1918, Nachr. Ges. Wiss. Göttingen, 98) crystallite size `τ = K·λ / (β·cosθ)` with β the sample breadth
- * in radians after removing the instrumental breadth. Example (DOMAIN §3.3): β = 0.20° at 30° 2θ, Cu ⇒ ≈ 41 nm.
+ * in radians after removing the instrumental breadth. Example (computed, K 0.9): β = 0.20° at 30° 2θ, Cu ⇒ ≈ 41 nm.
  * @returns size in nm with the assumptions that go with it
  */
 export function scherrer(input: ScherrerInput): ScherrerResult {

@@ -1,6 +1,6 @@
 /**
  * Peak-shape functions for synthetic scans: area-normalised pseudo-Voigt `pV = η·L + (1−η)·G` with common FWHM H
- * (DOMAIN §3.3 step 5; Thompson, Cox & Hastings 1987, J. Appl. Cryst. 20, 79), and the Caglioti, Paoletti & Ricci
+ * (Thompson, Cox & Hastings 1987, J. Appl. Cryst. 20, 79), and the Caglioti, Paoletti & Ricci
  * (1958, Nucl. Instrum. 3, 223) width law `H² = U·tan²θ + V·tanθ + W`.
  */
 

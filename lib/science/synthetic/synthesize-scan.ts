@@ -65,7 +65,7 @@ export interface SynthesizeScanOptions {
 
 const DEG = Math.PI / 180;
 const CU_KA1 = 1.540593;
-// Cu Kα2 (Å), ITC Vol. C Table 4.2.2.1 as reproduced in DOMAIN §3.1 (from memory there).
+// Cu Kα2 (Å), ITC Vol. C (2006) Table 4.2.2.1, from memory.
 const CU_KA2 = 1.544426;
 
 function lorentzPolarization(twoThetaDeg: number): number {
