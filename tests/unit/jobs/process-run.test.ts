@@ -3,13 +3,13 @@ import { identifyProcessed, patternFromRow, processScanText } from "@/lib/jobs";
 import { REFERENCE_LIBRARY } from "@/lib/science/minerals";
 import { quartzCalciteXy } from "../../fixtures/lab/handbook-scans";
 
-const bragg = (twoTheta: number, lambda: number) => lambda / (2 * Math.sin(((twoTheta / 2) * Math.PI) / 180)); // DOMAIN §3.1
+const bragg = (twoTheta: number, lambda: number) => lambda / (2 * Math.sin(((twoTheta / 2) * Math.PI) / 180)); // Bragg's law
 const cuRow = { anode: "Cu" as const, wavelengthA: 1.540598, wavelength2A: 1.544426 };
 
 describe("processScanText: the wavelength is the scan's unless the run overrides it", () => {
   const text = quartzCalciteXy({ header: false, seed: 2 });
 
-  test("uses the stored wavelength; quartz 101 comes out at d ≈ 3.343 Å (DOMAIN §4.2)", () => {
+  test("uses the stored wavelength; quartz 101 comes out at d ≈ 3.343 Å (handbook, from memory)", () => {
     const { processed } = processScanText(text, {}, cuRow);
     expect(processed.wavelength).toBe(1.540598);
     expect(processed.params.wavelengthSource).toBe("params");
@@ -19,7 +19,7 @@ describe("processScanText: the wavelength is the scan's unless the run overrides
   test("an anode override changes λ and every d by Bragg's law", () => {
     const { processed } = processScanText(text, { processing: { anode: "Co", kAlpha2: { enabled: false } } }, cuRow);
     expect(processed.params.anode).toBe("Co");
-    // Co Kα1 ≈ 1.789 Å (DOMAIN §3.1 table, rounded there to 1.78900).
+    // Co Kα1 ≈ 1.789 Å (ITC Vol. C 2006 §4.2.2; Hölzer et al. 1997; from memory).
     expect(processed.wavelength).toBeCloseTo(1.789, 3);
     const strongest = processed.peaks.reduce((a, b) => (b.height > a.height ? b : a));
     expect(strongest.d).toBeCloseTo(bragg(strongest.twoTheta, processed.wavelength), 10);

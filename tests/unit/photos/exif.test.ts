@@ -6,7 +6,7 @@ import { EXIFTOOL, exiftoolRead, exiftoolWrite, jpegOrientation6, jpegWithGps } 
 describe("readPhotoMetadata", () => {
   test("GPS written by sharp .withExif reads back as −33.8678, 151.2072 (STACK.md pitfall 17)", async () => {
     const meta = await readPhotoMetadata(await jpegWithGps());
-    // 33°52′04″ S = −(33 + 52/60 + 4/3600) = −33.86778; 151°12′26″ E = 151.20722 (DMS definition, DOMAIN.md §2.6)
+    // 33°52′04″ S = −(33 + 52/60 + 4/3600) = −33.86778; 151°12′26″ E = 151.20722 (three rationals D, M, S; CIPA DC-008, Exif 2.32)
     expect(meta.gps?.lat).toBeCloseTo(-33.8678, 4);
     expect(meta.gps?.lon).toBeCloseTo(151.2072, 4);
     expect(meta.gps?.altitudeM).toBe(58);
@@ -45,10 +45,10 @@ describe("readPhotoMetadata", () => {
     expect(meta.gps?.altitudeM).toBeCloseTo(372, 6);
     expect(meta.gps?.imgDirectionRef).toBe("M");
     expect(meta.gps?.horizontalErrorM).toBeCloseTo(4.5, 6);
-    expect(meta.gps?.fixAt).toBe("2026-03-14T09:05:22.000Z"); // GPSDateStamp/GPSTimeStamp are UTC (DOMAIN.md §2.6)
+    expect(meta.gps?.fixAt).toBe("2026-03-14T09:05:22.000Z"); // GPSDateStamp/GPSTimeStamp are UTC (CIPA DC-008, Exif 2.32)
   });
 
-  test.skipIf(!EXIFTOOL)("below sea level: GPSAltitudeRef 1 negates the altitude (DOMAIN.md §2.6)", async () => {
+  test.skipIf(!EXIFTOOL)("below sea level: GPSAltitudeRef 1 negates the altitude (CIPA DC-008, Exif 2.32)", async () => {
     const base = await sharp({ create: { width: 16, height: 16, channels: 3, background: "#777" } }).jpeg().toBuffer();
     const tagged = exiftoolWrite(base, ["-GPSLatitude=31.5", "-GPSLatitudeRef=N", "-GPSLongitude=35.5", "-GPSLongitudeRef=E", "-GPSAltitude=430", "-GPSAltitudeRef#=1"]);
     expect((await readPhotoMetadata(tagged)).gps?.altitudeM).toBeCloseTo(-430, 6);
@@ -58,7 +58,7 @@ describe("readPhotoMetadata", () => {
     const meta = await readPhotoMetadata(await jpegWithGps());
     expect(meta.takenLocal).toBe("2026-03-14T10:05:22");
     expect(meta.takenOffset).toBe("+11:00");
-    // 10:05:22 at UTC+11 is 23:05:22 UTC the day before (Exif 2.31 OffsetTimeOriginal, DOMAIN.md §2.6)
+    // 10:05:22 at UTC+11 is 23:05:22 UTC the day before (OffsetTimeOriginal since Exif 2.31; CIPA DC-008, Exif 2.32, 2019)
     expect(meta.takenAt).toBe("2026-03-13T23:05:22Z");
   });
 

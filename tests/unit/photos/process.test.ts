@@ -9,7 +9,7 @@ const catchError = async (p: Promise<unknown>) => p.then(() => null, (e: unknown
 
 describe("processPhoto", () => {
   test("orientation 6: thumbnail and display are rotated (width and height swapped) and carry no EXIF", async () => {
-    // Orientation 6 = rotate 90° clockwise to display (DOMAIN.md §2.6)
+    // Orientation 6 = rotate 90° clockwise to display (CIPA DC-008, Exif 2.32)
     const p = await processPhoto(await jpegOrientation6(), "IMG_0001.JPG", { thumbSize: 100 });
     expect([p.width, p.height]).toEqual([200, 400]);
     expect([p.thumb.width, p.thumb.height]).toEqual([50, 100]);
@@ -21,7 +21,7 @@ describe("processPhoto", () => {
   });
 
   test("the rotation really moves pixels: the stored left half becomes the displayed top half", async () => {
-    // 32×16 image: left half red, right half blue. Orientation 6 (rotate 90° clockwise, DOMAIN.md §2.6) puts red on top.
+    // 32×16 image: left half red, right half blue. Orientation 6 (rotate 90° clockwise, CIPA DC-008) puts red on top.
     const w = 32, h = 16;
     const raw = Buffer.alloc(w * h * 3);
     for (let y = 0; y < h; y++) for (let x = 0; x < w; x++) raw.set(x < w / 2 ? [255, 0, 0] : [0, 0, 255], (y * w + x) * 3);

@@ -1,8 +1,8 @@
 import { describe, expect, test } from "vitest";
 import { dFromTwoTheta, dUncertainty, twoThetaFromD } from "@/lib/science/units";
 
-// Check values: DOMAIN.md §4.1 (Bragg, Cu Kα1 = 1.540593 Å; Co Kα1 = 1.78900 Å), computed independently there.
-describe("Bragg conversions (DOMAIN §4.1 check values)", () => {
+// Check values recomputed independently from Bragg's law (Cu Kα1 = 1.540593 Å; Co Kα1 = 1.78900 Å).
+describe("Bragg conversions (check values recomputed from Bragg's law)", () => {
   const cu = 1.540593;
   test.each([
     [3.3434, 26.64],
@@ -36,7 +36,7 @@ describe("impossible input gives NaN", () => {
   });
 });
 
-describe("dUncertainty: Δd/d = −cotθ·Δθ (differentiated Bragg law, DOMAIN §3.1)", () => {
+describe("dUncertainty: Δd/d = −cotθ·Δθ (differentiated Bragg law)", () => {
   test("matches a central finite difference of Bragg's law", () => {
     const cu = 1.540593;
     const tt = 26.64;

@@ -2,14 +2,14 @@ import { describe, expect, test } from "vitest";
 import { CUSTODY_EVENT_STATUS, STATUS_RANK, custodyStepSchema, planStatusChange, statusFromEvents } from "@/lib/validation/custody";
 import { SAMPLE_STATUSES, type SampleStatus } from "@/lib/vocabulary";
 
-// The order is DOMAIN.md §1 "Suggested sample lifecycle states": planned → collected → dispatched → received →
+// The order is the usual sample lifecycle (common practice): planned → collected → dispatched → received →
 // prepared → scanned → processed → candidates ready → confirmed → reported → stored / returned / discarded
 // ("candidates ready" is our "processed").
-const DOMAIN_ORDER: SampleStatus[] = ["planned", "collected", "dispatched", "received", "prepared", "scanned", "processed", "confirmed", "reported"];
+const LIFECYCLE_ORDER: SampleStatus[] = ["planned", "collected", "dispatched", "received", "prepared", "scanned", "processed", "confirmed", "reported"];
 
 describe("lifecycle ranks", () => {
-  test("follow the DOMAIN order strictly, with the three end states after reported", () => {
-    for (let i = 1; i < DOMAIN_ORDER.length; i++) expect(STATUS_RANK[DOMAIN_ORDER[i]]).toBeGreaterThan(STATUS_RANK[DOMAIN_ORDER[i - 1]]);
+  test("follow the lifecycle order strictly, with the three end states after reported", () => {
+    for (let i = 1; i < LIFECYCLE_ORDER.length; i++) expect(STATUS_RANK[LIFECYCLE_ORDER[i]]).toBeGreaterThan(STATUS_RANK[LIFECYCLE_ORDER[i - 1]]);
     for (const end of ["stored", "returned", "discarded"] as const) expect(STATUS_RANK[end]).toBeGreaterThan(STATUS_RANK.reported);
     expect(Object.keys(STATUS_RANK).sort()).toEqual([...SAMPLE_STATUSES].sort());
   });

@@ -6,7 +6,7 @@ import { fieldErrors } from "@/lib/validation/common";
 
 const errs = (r: { success: boolean; error?: unknown }) => (r.success ? {} : fieldErrors(r.error as never));
 
-describe("per-type sample details (DOMAIN.md §2.2)", () => {
+describe("per-type sample details (sample types: common practice)", () => {
   test("drill core is keyed by hole ID and from/to depth: all three required, to > from", () => {
     const missing = sampleCreateSchema.safeParse({ sampleType: "core", typeDetails: { kind: "core" } });
     expect(Object.keys(errs(missing)).sort()).toEqual(["typeDetails.fromM", "typeDetails.holeId", "typeDetails.toM"]);
@@ -35,11 +35,11 @@ describe("per-type sample details (DOMAIN.md §2.2)", () => {
 });
 
 describe("station and structure schemas", () => {
-  test("latitude 91 and an elevation reference outside msl/ellipsoid are refused (DOMAIN.md §2.4)", () => {
+  test("latitude 91 and an elevation reference outside msl/ellipsoid are refused (WGS84 latitude ±90°; common practice)", () => {
     const r = stationCreateSchema.safeParse({ lat: 91, lon: 0, elevationRef: "geoid" });
     expect(Object.keys(errs(r)).sort()).toEqual(["elevationRef", "lat"]);
   });
-  test("dip 95 and strike 400 are refused by the right-hand-rule entry (DOMAIN.md §2.5 ranges)", () => {
+  test("dip 95 and strike 400 are refused by the right-hand-rule entry (ranges: common practice)", () => {
     const r = structureCreateSchema.safeParse({ convention: "rhr", feature: "bedding", strike: 400, dip: 95 });
     expect(Object.keys(errs(r)).sort()).toEqual(["dip", "strike"]);
   });

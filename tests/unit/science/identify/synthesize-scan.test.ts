@@ -1,6 +1,6 @@
 /**
  * The synthetic-scan generator used by the identification tests and the benchmark, against Bragg's law, the Kα2
- * separations of DOMAIN §3.3 (Rachinger), Poisson counting statistics (σ² = N) and the RIR intensity relation.
+ * separations (Rachinger 1948; Δ2θ = 2 tanθ (λ2−λ1)/λ1, recomputed), Poisson counting statistics (σ² = N) and the RIR intensity relation.
  */
 import { describe, expect, test } from "vitest";
 import { cagliotiFwhm, createRandom, marchDollase, poissonDeviate, pseudoVoigt, reciprocalMetric, synthesizeScan } from "@/lib/science/synthetic";
@@ -16,14 +16,14 @@ function argmaxIn(x: Float64Array, y: Float64Array, lo: number, hi: number): num
 }
 
 describe("synthesizeScan", () => {
-  test("a line at d 3.3434 Å peaks at 26.640° 2θ with Cu Kα1 (DOMAIN §4.1), shifted by the zero shift", () => {
+  test("a line at d 3.3434 Å peaks at 26.640° 2θ with Cu Kα1 (Bragg's law, recomputed), shifted by the zero shift", () => {
     for (const zeroShift of [0, 0.1]) {
       const s = synthesizeScan({ phases: [{ pattern: phase([line(3.3434, 100)]), weight: 1 }], step: 0.002, range: [25, 28], noise: false, background: false, kalpha2Ratio: 0, zeroShift });
       expect(argmaxIn(s.twoTheta, s.counts, 25, 28)).toBeCloseTo(26.64 + zeroShift, 2);
     }
   });
 
-  test("Kα2 sits 0.165° above Kα1 at 60° 2θ (DOMAIN §3.3, Rachinger 1948) with half the area", () => {
+  test("Kα2 sits 0.165° above Kα1 at 60° 2θ (Rachinger 1948; recomputed) with half the area", () => {
     const d = 1.540593 / (2 * Math.sin((30 * Math.PI) / 180)); // Kα1 at exactly 60°
     const s = synthesizeScan({ phases: [{ pattern: phase([line(d, 100)]), weight: 1 }], step: 0.001, range: [59, 61], noise: false, background: false, fwhm: { U: 0, V: 0, W: 0.0016 }, eta: 0 });
     const p1 = argmaxIn(s.twoTheta, s.counts, 59.9, 60.08);
@@ -41,7 +41,7 @@ describe("synthesizeScan", () => {
     expect(area(20, 24.4) / area(34, 38)).toBeCloseTo(3, 1);
   });
 
-  test("Poisson noise: variance ≈ mean on a flat background (σ = √N, DOMAIN §3.2), seeded and reproducible", () => {
+  test("Poisson noise: variance ≈ mean on a flat background (σ = √N, Poisson statistics), seeded and reproducible", () => {
     const opts = { phases: [], range: [10, 90] as [number, number], step: 0.01, background: { a0: 400, a1: 0, a2: 0, lowAngle: 0 }, seed: 7 };
     const s = synthesizeScan(opts);
     const mean = s.counts.reduce((a, b) => a + b, 0) / s.counts.length;
@@ -66,7 +66,7 @@ describe("synthesizeScan", () => {
 });
 
 describe("profile helpers", () => {
-  test("pseudo-Voigt is area-normalised (DOMAIN §3.3 step 5) and has half maximum at ±H/2", () => {
+  test("pseudo-Voigt is area-normalised (Thompson, Cox & Hastings 1987) and has half maximum at ±H/2", () => {
     let area = 0;
     for (let x = -200; x <= 200; x += 0.001) area += pseudoVoigt(x, 0.1, 0.5) * 0.001;
     expect(area).toBeCloseTo(1, 2); // Lorentzian tails beyond ±200° hold ~0.02 % of the area

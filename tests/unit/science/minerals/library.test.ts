@@ -77,7 +77,7 @@ describe("library.json", () => {
     expect(findReferencePattern("quartz")?.hazard).toBe("crystalline_silica");
   });
 
-  test("REFERENCE_LIBRARY carries 2θ for Cu Kα1 (Bragg: quartz 101 d 3.3434 → 26.640°, DOMAIN §4.1)", () => {
+  test("REFERENCE_LIBRARY carries 2θ for Cu Kα1 (Bragg's law, recomputed: quartz 101 d 3.3434 → 26.640°)", () => {
     const q = findReferencePattern("quartz")!;
     const strongest = q.lines.reduce((a, b) => (b.intensity > a.intensity ? b : a));
     expect(strongest.d).toBeCloseTo(3.343, 2);

@@ -3,7 +3,7 @@ import { correctClippingBias, snipBackground } from "@/lib/science/signal";
 
 import { pv, synthScan } from "./synthetic";
 
-// SNIP as defined by Ryan et al. (1988, NIM B 34, 396) and Morháč et al. (1997, NIM A 401, 113), DOMAIN §3.3.
+// SNIP as defined by Ryan et al. (1988, NIM B 34, 396) and Morháč et al. (1997, NIM A 401, 113).
 describe("SNIP background", () => {
   test("hand-worked clipping without the LLS transform: a 1-point spike is removed at p = 1", () => {
     // p = 1: v2 = min(10, (0 + 0)/2) = 0; the others are already minima.

@@ -2,7 +2,7 @@ import { describe, expect, test } from "vitest";
 import { correctTwoTheta, displacementShift, scherrer } from "@/lib/science/signal";
 import { wavelengthsFor } from "@/lib/science/anodes";
 
-describe("specimen displacement Δ2θ = −2·s·cosθ/R (DOMAIN §3.3 step 6)", () => {
+describe("specimen displacement Δ2θ = −2·s·cosθ/R (Klug & Alexander 1974, from memory)", () => {
   test("worked example: s = 0.1 mm, R = 240 mm ⇒ −0.046° at 30° 2θ", () => {
     expect(displacementShift(30, 0.1, 240)).toBeCloseTo(-0.046, 3);
   });
@@ -18,7 +18,7 @@ describe("specimen displacement Δ2θ = −2·s·cosθ/R (DOMAIN §3.3 step 6)",
   });
 });
 
-describe("Scherrer size τ = Kλ/(β cosθ) (Scherrer 1918; DOMAIN §3.3 step 7)", () => {
+describe("Scherrer size τ = Kλ/(β cosθ) (Scherrer 1918)", () => {
   const cu = wavelengthsFor("Cu").kAlpha1;
   test("worked example: β = 0.20° at 30° 2θ, Cu ⇒ ≈ 41 nm", () => {
     const r = scherrer({ fwhmDeg: 0.2, twoThetaDeg: 30, wavelengthA: cu });

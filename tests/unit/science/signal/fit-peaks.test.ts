@@ -5,7 +5,7 @@ import { synthScan } from "./synthetic";
 
 const cu = wavelengthsFor("Cu");
 
-// Recovery test: a synthetic pseudo-Voigt (DOMAIN §3.3 profile) of known position, FWHM, area and η with Poisson
+// Recovery test: a synthetic pseudo-Voigt (Thompson, Cox & Hastings 1987) of known position, FWHM, area and η with Poisson
 // noise (seeded RNG) is fitted from rough starting values. Truth is known by construction.
 describe("pseudo-Voigt fitting recovers a known peak", () => {
   const truth = { twoTheta: 30.0, area: 120, fwhm: 0.12, eta: 0.4 };

@@ -5,7 +5,7 @@ import { kAlpha2Angle, pv } from "./synthetic";
 
 const cu = wavelengthsFor("Cu");
 
-describe("Kα1–Kα2 separation, Cu (Rachinger 1948; check values DOMAIN §3.3: 0.076° at 30°, 0.165° at 60°, 0.285° at 90°)", () => {
+describe("Kα1–Kα2 separation, Cu (Rachinger 1948; 2 tanθ (λ2−λ1)/λ1 recomputed: 0.076° at 30°, 0.165° at 60°, 0.285° at 90°)", () => {
   test.each([
     [30, 0.076],
     [60, 0.165],
@@ -22,7 +22,7 @@ describe("Kα1–Kα2 separation, Cu (Rachinger 1948; check values DOMAIN §3.3:
 });
 
 describe("Rachinger stripping", () => {
-  // Invented doublet: Kα1 at 2θ0 with area 100, Kα2 at the exact Bragg angle with ratio 0.5 (DOMAIN §3.1), no noise.
+  // Invented doublet: Kα1 at 2θ0 with area 100, Kα2 at the exact Bragg angle with ratio 0.5 (Kα2/Kα1 ≈ 0.5, common practice), no noise.
   function doublet(center: number, fwhm: number, eta: number, step = 0.005) {
     const n = Math.round(4 / step);
     const x = new Float64Array(n);

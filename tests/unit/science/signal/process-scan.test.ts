@@ -7,7 +7,7 @@ import { synthScan } from "./synthetic";
 
 const cu = wavelengthsFor("Cu");
 // Invented multi-peak Cu scan with Kα2 (ratio 0.5), curved background and Poisson noise. Positions chosen near
-// quartz 100/101 and calcite 104 (DOMAIN §4.2) for realism only; the checks use the known synthetic truth.
+// quartz 100/101 and calcite 104 (handbook d, from memory) for realism only; the checks use the known synthetic truth.
 const TRUTH = [
   { twoTheta: 20.86, area: 60, fwhm: 0.1, eta: 0.5 },
   { twoTheta: 26.64, area: 300, fwhm: 0.1, eta: 0.5 },

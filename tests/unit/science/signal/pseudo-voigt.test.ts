@@ -1,7 +1,7 @@
 import { describe, expect, test } from "vitest";
 import { pseudoVoigt, pseudoVoigtArea, pseudoVoigtHeight, pseudoVoigtWithGradient } from "@/lib/science/signal";
 
-// Definitions: DOMAIN §3.3 step 5 (pV = ηL + (1−η)G with common FWHM H, area-normalised G and L).
+// Definitions: Thompson, Cox & Hastings (1987) J. Appl. Cryst. 20, 79 (pV = ηL + (1−η)G with common FWHM H, area-normalised G and L).
 describe("pseudo-Voigt profile", () => {
   test.each([0, 0.3, 0.5, 1])("η = %f: unit area (numerical integral, ±1 %% for the Lorentzian tails beyond ±500 H)", (eta) => {
     const h = 0.1;

@@ -53,7 +53,7 @@ describe("smoothSavitzkyGolay behaviour", () => {
     expect(() => smoothSavitzkyGolay(y, { windowSize: 3 })).toThrow(RangeError);
     expect(() => smoothSavitzkyGolay(y, { windowSize: 5, polynomial: 4 })).toThrow(RangeError);
   });
-  test("window ≤ FWHM in points (DOMAIN §3.3): largest odd window ≥ 5, or 0 to skip", () => {
+  test("window ≤ FWHM in points (common practice): largest odd window ≥ 5, or 0 to skip", () => {
     expect(windowForFwhm(5)).toBe(5);
     expect(windowForFwhm(6.9)).toBe(5);
     expect(windowForFwhm(7.2)).toBe(7);

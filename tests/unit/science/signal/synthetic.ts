@@ -1,5 +1,5 @@
 /**
- * Synthetic scans for tests and the speed script. Invented data: pseudo-Voigt peaks (DOMAIN §3.3 profile) on a smooth
+ * Synthetic scans for tests and the speed script. Invented data: pseudo-Voigt peaks (Thompson, Cox & Hastings 1987) on a smooth
  * background, Kα2 companions at the exact Bragg position (sinθ₂ = (λ2/λ1)·sinθ₁), Poisson noise from a seeded RNG.
  */
 import type { Scan } from "@/lib/science/types";
