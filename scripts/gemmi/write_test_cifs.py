@@ -22,7 +22,7 @@ STRUCTURES = [
         "mineral": "Halite",
         "formula": "Cl Na",
         "source": "Cell: Swanson & Fuyat (1953) NBS Circular 539 vol. 2, a = 5.6402 A (from memory). "
-        "Positions: rock-salt structure, Na 4a, Cl 4b. B (A^2) Na 1.6, Cl 1.2 as in DOMAIN.md 3.5.",
+        "Positions: rock-salt structure, Na 4a, Cl 4b. B (A^2) Na 1.6, Cl 1.2: typical isotropic values chosen for the test (common practice range 0.3-1.5 A^2).",
         "journal": ("National Bureau of Standards Circular", 1953, "539(2)", "41"),
         "authors": ["Swanson, H. E.", "Fuyat, R. K."],
         "sg": "F m -3 m",
@@ -37,7 +37,7 @@ STRUCTURES = [
         "formula": "O2 Si",
         "source": "Levien, Prewitt & Weidner (1980) Am. Mineral. 65, 920 (1 bar data; values from memory): "
         "a 4.9160, c 5.4054, Si x 0.4697, O 0.4135 0.2669 0.1191, origin shifted by z + 2/3 to the ITA "
-        "setting of P3221 (Si on 3a x,0,2/3). B (A^2) Si 0.6, O 1.0 as in DOMAIN.md 3.5.",
+        "setting of P3221 (Si on 3a x,0,2/3). B (A^2) Si 0.6, O 1.0: typical isotropic values chosen for the test (common practice range 0.3-1.5 A^2).",
         "journal": ("American Mineralogist", 1980, "65", "920"),
         "authors": ["Levien, L.", "Prewitt, C. T.", "Weidner, D. J."],
         "sg": "P 32 2 1",
