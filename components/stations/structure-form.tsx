@@ -7,6 +7,7 @@ import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { Button } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { ConflictPanel, type ConflictField } from "./conflict-panel";
 import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
 import { normalizeAzimuth } from "@/lib/geo/angles";
 import { angleLineToPlane, dipDirectionFromStrike, formatAttitude, lineFromRake, poleToPlane } from "@/lib/geo/structure";
@@ -82,14 +83,59 @@ function preview(v: Partial<Values>, planes: PlaneOption[]): string | null {
   return null;
 }
 
-/** Adds a structural measurement to a station (same zod schema as the server). */
-export function StructureForm({ projectId, stationId, planes }: { projectId: string; stationId: string; planes: PlaneOption[] }) {
+/** A stored measurement as a structure form fills it in (true north; a rake stays a rake). */
+export interface EditableStructure {
+  id: string;
+  version: number;
+  kind: "planar" | "linear";
+  feature: string;
+  convention: string;
+  dipDirection: number | null;
+  dip: number | null;
+  trend: number | null;
+  plunge: number | null;
+  rake: number | null;
+  planeId: string | null;
+  generation: string | null;
+  overturned: boolean;
+  quality: string | null;
+  note: string | null;
+}
+
+function editValues(s: EditableStructure): Values {
+  const common = { feature: s.feature, azimuthRef: "true" as const, generation: s.generation ?? "", quality: s.quality, overturned: s.overturned, note: s.note ?? "" };
+  if (s.kind === "planar") return { ...common, convention: "dip_dipdir", dipDirection: s.dipDirection, dip: s.dip };
+  if (s.convention === "rake") return { ...common, convention: "rake", rake: s.rake, planeId: s.planeId };
+  return { ...common, convention: "trend_plunge", trend: s.trend, plunge: s.plunge, planeId: s.planeId };
+}
+
+const CONFLICT_FIELDS: ConflictField[] = [
+  { key: "feature", label: "Feature" },
+  { key: "dipDirection", label: "Dip direction" },
+  { key: "dip", label: "Dip" },
+  { key: "trend", label: "Trend" },
+  { key: "plunge", label: "Plunge" },
+  { key: "rake", label: "Rake" },
+  { key: "generation", label: "Generation" },
+  { key: "quality", label: "Quality" },
+  { key: "note", label: "Note" },
+];
+
+/**
+ * Adds a structural measurement to a station (same zod schema as the server), or re-enters one (`edit`): an edit
+ * carries the version it was made against; without a connection it waits in the outbox; a newer version on the
+ * server is shown side by side (keep mine / take theirs).
+ */
+export function StructureForm({ projectId, stationId, planes, edit, onDone }: { projectId: string; stationId: string; planes: PlaneOption[]; edit?: EditableStructure; onDone?: () => void }) {
   const router = useRouter();
+  const px = edit ? "se" : "sf";
   const [general, setGeneral] = useState<string[]>([]);
   const [saved, setSaved] = useState<string | null>(null);
+  const [version, setVersion] = useState(edit?.version ?? 1);
+  const [conflict, setConflict] = useState<EditableStructure | null>(null);
   const { register, handleSubmit, control, setError, reset, formState, getValues, setValue } = useForm<Values>({
     resolver: zodResolver(structureCreateSchema as never) as unknown as Resolver<Values>,
-    defaultValues: { convention: "rhr", feature: "bedding", azimuthRef: "true" },
+    defaultValues: edit ? editValues(edit) : { convention: "rhr", feature: "bedding", azimuthRef: "true" },
     shouldUnregister: true,
   });
   const v = useWatch({ control }) as Partial<Values>;
@@ -98,13 +144,14 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
   const isPlane = v.convention === "rhr" || v.convention === "dip_dipdir";
   const features = isPlane ? PLANAR_FEATURES : LINEAR_FEATURES;
   const num = (name: keyof Values, label: string, hint?: string) => (
-    <Field label={label} htmlFor={`sf-${name}`} error={err(name)} hint={hint}>
-      <input id={`sf-${name}`} type="number" step="any" inputMode="decimal" className={inputClass} {...register(name, { setValueAs: asNumber })} aria-invalid={err(name) ? true : undefined} />
+    <Field label={label} htmlFor={`${px}-${name}`} error={err(name)} hint={hint}>
+      <input id={`${px}-${name}`} type="number" step="any" inputMode="decimal" className={inputClass} {...register(name, { setValueAs: asNumber })} aria-invalid={err(name) ? true : undefined} />
     </Field>
   );
 
   const onSubmit = handleSubmit(
     async (values) => {
+    if (edit) return saveEdit(values, version);
     setGeneral([]);
     setSaved(null);
     const body: Record<string, unknown> = { ...values };
@@ -133,13 +180,39 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
     () => setSaved(null),
   );
 
+  async function saveEdit(values: Values, against: number) {
+    setGeneral([]);
+    setSaved(null);
+    const body: Record<string, unknown> = { ...values, version: against };
+    for (const [k, val] of Object.entries(body)) if (val === "" || val === undefined) delete body[k];
+    if (body.azimuthRef === "true") delete body.declinationDeg;
+    const url = `/api/projects/${projectId}/stations/${stationId}/structures/${edit!.id}`;
+    try {
+      await fetchJson(url, { method: "PATCH", json: body });
+      onDone?.();
+      router.refresh();
+    } catch (e) {
+      if (!(e instanceof ApiError) && isNetworkFailure(e)) {
+        const label = FEATURE_LABELS[values.feature] ?? values.feature;
+        await enqueue({ projectId, kind: "structure", action: "update", recordId: edit!.id, url, label: `Edit of ${label.toLowerCase()} measurement`, body });
+        setSaved("No connection: the edit is saved on this device and will be sent when you are back online (see Sync).");
+        return;
+      }
+      if (e instanceof ApiError && e.status === 409 && e.details?.current) {
+        setConflict(e.details.current as EditableStructure);
+        return;
+      }
+      setGeneral(applyServerErrors(e, setError, KNOWN));
+    }
+  }
+
   const hint = preview(v, planes);
   return (
-    <form onSubmit={onSubmit} noValidate className="space-y-3" aria-label="Add a structural measurement">
+    <form onSubmit={onSubmit} noValidate className="space-y-3" aria-label={edit ? "Edit a structural measurement" : "Add a structural measurement"}>
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field label="Measurement" htmlFor="sf-convention" error={err("convention")}>
+        <Field label="Measurement" htmlFor={`${px}-convention`} error={err("convention")}>
           <select
-            id="sf-convention"
+            id={`${px}-convention`}
             className={inputClass}
             {...register("convention", {
               onChange: (e: React.ChangeEvent<HTMLSelectElement>) => {
@@ -155,8 +228,8 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
             ))}
           </select>
         </Field>
-        <Field label="Feature" htmlFor="sf-feature" error={err("feature")}>
-          <select id="sf-feature" name="feature" className={inputClass} value={v.feature ?? ""} onChange={(e) => setValue("feature", e.target.value, { shouldValidate: formState.isSubmitted })}>
+        <Field label="Feature" htmlFor={`${px}-feature`} error={err("feature")}>
+          <select id={`${px}-feature`} name="feature" className={inputClass} value={v.feature ?? ""} onChange={(e) => setValue("feature", e.target.value, { shouldValidate: formState.isSubmitted })}>
             {features.map((f) => (
               <option key={f} value={f}>
                 {FEATURE_LABELS[f]}
@@ -186,8 +259,8 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
         )}
         {v.convention === "rake" && num("rake", "Rake (°)", "0–180 from the plane's RHR strike")}
         {(v.convention === "rake" || v.convention === "trend_plunge") && (
-          <Field label={v.convention === "rake" ? "On plane" : "On plane (optional)"} htmlFor="sf-plane" error={err("planeId")}>
-            <select id="sf-plane" className={inputClass} {...register("planeId", { setValueAs: (x: string) => x || null })}>
+          <Field label={v.convention === "rake" ? "On plane" : "On plane (optional)"} htmlFor={`${px}-plane`} error={err("planeId")}>
+            <select id={`${px}-plane`} className={inputClass} {...register("planeId", { setValueAs: (x: string) => x || null })}>
               <option value="">{v.convention === "rake" ? "Choose a plane…" : "— not measured on a plane"}</option>
               {planes.map((p) => (
                 <option key={p.id} value={p.id}>
@@ -200,8 +273,8 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
       </div>
       {v.convention !== "rake" && (
         <div className="grid gap-3 sm:grid-cols-3">
-          <Field label="Azimuth read from" htmlFor="sf-ref" error={err("azimuthRef")}>
-            <select id="sf-ref" className={inputClass} {...register("azimuthRef")}>
+          <Field label="Azimuth read from" htmlFor={`${px}-ref`} error={err("azimuthRef")}>
+            <select id={`${px}-ref`} className={inputClass} {...register("azimuthRef")}>
               <option value="true">True north (compass corrected)</option>
               <option value="magnetic">Magnetic north</option>
             </select>
@@ -210,11 +283,11 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
         </div>
       )}
       <div className="grid gap-3 sm:grid-cols-3">
-        <Field label="Generation" htmlFor="sf-gen" error={err("generation")} hint="e.g. S0, S1, L2">
-          <input id="sf-gen" className={inputClass} {...register("generation")} />
+        <Field label="Generation" htmlFor={`${px}-gen`} error={err("generation")} hint="e.g. S0, S1, L2">
+          <input id={`${px}-gen`} className={inputClass} {...register("generation")} />
         </Field>
-        <Field label="Quality" htmlFor="sf-q" error={err("quality")}>
-          <select id="sf-q" className={inputClass} {...register("quality", { setValueAs: (x: string) => x || null })}>
+        <Field label="Quality" htmlFor={`${px}-q`} error={err("quality")}>
+          <select id={`${px}-q`} className={inputClass} {...register("quality", { setValueAs: (x: string) => x || null })}>
             <option value="">—</option>
             {STRUCTURE_QUALITIES.map((q) => (
               <option key={q} value={q}>
@@ -229,8 +302,8 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
           </label>
         )}
       </div>
-      <Field label="Note" htmlFor="sf-note" error={err("note")}>
-        <input id="sf-note" className={inputClass} {...register("note")} />
+      <Field label="Note" htmlFor={`${px}-note`} error={err("note")}>
+        <input id={`${px}-note`} className={inputClass} {...register("note")} />
       </Field>
       {hint && (
         <p className="text-sm text-ink" aria-live="polite" data-testid="structure-preview">
@@ -249,9 +322,34 @@ export function StructureForm({ projectId, stationId, planes }: { projectId: str
           {saved}
         </p>
       )}
-      <Button type="submit" disabled={formState.isSubmitting}>
-        {formState.isSubmitting ? "Saving…" : "Add measurement"}
-      </Button>
+      {conflict && (
+        <ConflictPanel
+          fields={CONFLICT_FIELDS}
+          mine={getValues() as unknown as Record<string, unknown>}
+          theirs={conflict as unknown as Record<string, unknown>}
+          onKeepMine={async () => {
+            const v2 = conflict.version;
+            setConflict(null);
+            setVersion(v2);
+            await saveEdit(getValues(), v2);
+          }}
+          onTakeTheirs={() => {
+            reset(editValues(conflict));
+            setVersion(conflict.version);
+            setConflict(null);
+          }}
+        />
+      )}
+      <div className="flex flex-wrap gap-2">
+        <Button type="submit" disabled={formState.isSubmitting}>
+          {formState.isSubmitting ? "Saving…" : edit ? "Save measurement" : "Add measurement"}
+        </Button>
+        {edit && onDone && (
+          <Button type="button" variant="secondary" onClick={onDone}>
+            Cancel
+          </Button>
+        )}
+      </div>
     </form>
   );
 }

@@ -1,10 +1,11 @@
 "use client";
 
 import { useRouter } from "next/navigation";
-import { useState } from "react";
+import { Fragment, useState } from "react";
 import { Badge } from "@/components/ui/badge";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { formatAttitude, poleToPlane, strikeFromDipDirection } from "@/lib/geo/structure";
+import { StructureForm } from "./structure-form";
 import { FEATURE_LABELS } from "./structure-labels";
 
 export interface StructureItem {
@@ -25,6 +26,7 @@ export interface StructureItem {
   declinationDeg: number | null;
   declinationApplied: boolean;
   note: string | null;
+  version?: number;
 }
 
 function attitude(s: StructureItem): { main: string; sub: string } {
@@ -45,6 +47,7 @@ function attitude(s: StructureItem): { main: string; sub: string } {
 export function StructureTable({ projectId, stationId, items, canWrite }: { projectId: string; stationId: string; items: StructureItem[]; canWrite: boolean }) {
   const router = useRouter();
   const [error, setError] = useState<string | null>(null);
+  const [editing, setEditing] = useState<string | null>(null);
   if (items.length === 0) return <p className="text-sm text-muted">No measurements yet.</p>;
   const byId = new Map(items.map((s) => [s.id, s]));
   async function remove(s: StructureItem) {
@@ -77,8 +80,12 @@ export function StructureTable({ projectId, stationId, items, canWrite }: { proj
           {items.map((s) => {
             const a = attitude(s);
             const plane = s.planeId ? byId.get(s.planeId) : undefined;
+            const planes = items
+              .filter((p) => p.kind === "planar" && p.id !== s.id && p.dipDirection != null && p.dip != null)
+              .map((p) => ({ id: p.id, feature: p.feature, dipDirection: p.dipDirection!, dip: p.dip! }));
             return (
-              <tr key={s.id} className="border-t border-line align-top">
+              <Fragment key={s.id}>
+              <tr className="border-t border-line align-top">
                 <td className="py-1.5 pr-3">
                   {FEATURE_LABELS[s.feature] ?? s.feature}
                   {s.generation && <span className="ml-1 text-muted">{s.generation}</span>}
@@ -103,12 +110,23 @@ export function StructureTable({ projectId, stationId, items, canWrite }: { proj
                 </td>
                 {canWrite && (
                   <td className="py-1.5 text-right">
+                    <button type="button" className="mr-3 text-xs text-brand hover:underline" onClick={() => setEditing(editing === s.id ? null : s.id)} aria-expanded={editing === s.id}>
+                      Edit
+                    </button>
                     <button type="button" className="text-xs text-danger hover:underline" onClick={() => remove(s)}>
                       Delete
                     </button>
                   </td>
                 )}
               </tr>
+              {canWrite && editing === s.id && (
+                <tr>
+                  <td colSpan={4} className="pb-3">
+                    <StructureForm projectId={projectId} stationId={stationId} planes={planes} edit={{ ...s, version: s.version ?? 1 }} onDone={() => setEditing(null)} />
+                  </td>
+                </tr>
+              )}
+              </Fragment>
             );
           })}
         </tbody>
