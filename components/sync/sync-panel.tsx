@@ -23,6 +23,16 @@ const FIELDS: ConflictField[] = [
   "collectedAt",
   "stationId",
   "storageLocation",
+  // structural measurements
+  "feature",
+  "dipDirection",
+  "dip",
+  "trend",
+  "plunge",
+  "rake",
+  "generation",
+  "quality",
+  "note",
 ].map((key) => ({ key, label: key }));
 
 const STATE_LABEL: Record<OutboxItem["state"], string> = { queued: "queued", sending: "sending", failed: "failed", conflict: "conflict" };
