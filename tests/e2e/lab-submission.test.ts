@@ -2,7 +2,7 @@ import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
 import { baseUrl, launchBrowser, openDemoProject, signInAs, type DemoRole } from "./helpers";
 
-// The field → lab hand-off of DOMAIN.md §1.3 through the real pages: draft from the register selection, dispatch with
+// The field → lab hand-off (chain of custody: common practice) through the real pages: draft from the register selection, dispatch with
 // a waybill, the lab's e-mail (captured by the fake SMTP server the harness starts), intake, a lab step, and the
 // sample's chain of custody.
 

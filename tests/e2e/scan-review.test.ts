@@ -49,7 +49,7 @@ describe("lab analyst: upload a scan, review the candidates, sign off", () => {
     await expect.poll(() => page.locator("[data-testid=fit-phase][data-mineral=quartz]").count()).toBe(1);
     await expect.poll(() => page.locator("[data-testid=fit-phase][data-mineral=calcite]").count()).toBe(1);
     expect(await page.textContent("[data-testid=candidates-notice]")).toMatch(/not an identification/);
-    // Quartz is crystalline silica: the caution (DOMAIN §6 wording) is on the page.
+    // Quartz is crystalline silica: the caution (our advisory wording) is on the page.
     expect(await page.textContent("[data-testid=silica-caution]")).toContain(SILICA_CAUTION);
     expect(await page.locator("[data-testid=peak-table] tbody tr").count()).toBeGreaterThan(10);
 

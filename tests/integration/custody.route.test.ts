@@ -12,8 +12,8 @@ import { getActor } from "@/lib/dal/actor";
 import { appendCustodyEvent } from "@/lib/dal/custody";
 import { call, makeWorld, type World } from "../helpers/app";
 
-// Chain-of-custody rules from DOMAIN.md §1.3 (every transfer with date-time, from/to, seal, condition) and the
-// lifecycle of §1; mail goes to the embedded outbox here (no SMTP configured), which is the default.
+// Chain-of-custody rules (common practice: every transfer with date-time, from/to, seal, condition; ISO/IEC 17025:2017
+// clause 7.4 on the lab side) and the usual sample lifecycle; mail goes to the embedded outbox here (no SMTP configured), which is the default.
 
 let w: World;
 beforeAll(async () => {

@@ -20,7 +20,7 @@ import { addScan } from "../helpers/phase-fixtures";
 
 /*
  * Invented samples on real Iberian Pyrite Belt coordinates, with scans written straight to the database
- * (tests/helpers/phase-fixtures). Confirmed = accepted on a signed-off scan (DOMAIN §6).
+ * (tests/helpers/phase-fixtures). Confirmed = accepted on a signed-off scan (common practice: a candidate is not an identification).
  */
 let w: World;
 const ids: Record<string, string> = {};

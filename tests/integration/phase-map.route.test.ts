@@ -10,7 +10,7 @@ import { call, makeWorld, type World } from "../helpers/app";
 import { addScan } from "../helpers/phase-fixtures";
 
 /*
- * Invented scenario on real Iberian Pyrite Belt coordinates. What counts as confirmed follows DOMAIN §6
+ * Invented scenario on real Iberian Pyrite Belt coordinates. What counts as confirmed follows common practice
  * and the lab workflow: a phase is confirmed only when accepted on a signed-off scan; a candidate is not an
  * identification.
  *   A: S1 signed off — quartz 60 wt%, pyrite 20 wt% accepted (kaolinite left undecided: not shown);

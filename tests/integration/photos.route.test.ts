@@ -43,7 +43,7 @@ const upload = (fd: FormData, who: keyof World["cookies"] = "field_geologist", i
 
 describe("photo upload, listing, bytes and deletion", () => {
   test("several photos in one multipart request: stored with EXIF GPS, thumbnails rotated, distance to the station", async () => {
-    // Station is at 37.7, −6.6. 0.001° of latitude ≈ 111 m (πR/180 per degree; DOMAIN.md §2.4: 1e-6° ≈ 0.11 m).
+    // Station is at 37.7, −6.6. 0.001° of latitude ≈ 111 m (πR/180 per degree, R = 6 371 km, arithmetic).
     const near = await jpegAt(37.701, -6.6);
     const far = await jpegAt(37.71, -6.6);
     const r = await upload(form({ name: "near.jpg", bytes: near }, { name: "far.jpg", bytes: far }, { name: "rotated.jpg", bytes: await jpegOrientation6() }));
@@ -192,7 +192,7 @@ describe("photo upload, listing, bytes and deletion", () => {
     expect(applied.json.lon).toBeCloseTo(151.2072, 4);
     expect(applied.json.locationSource).toBe("photo_exif");
     expect(applied.json.elevationM).toBe(58);
-    expect(applied.json.elevationRef).toBe("msl"); // EXIF GPSAltitude is relative to sea level (DOMAIN.md §2.6)
+    expect(applied.json.elevationRef).toBe("msl"); // EXIF GPSAltitude is relative to sea level (CIPA DC-008, Exif 2.32)
     expect(applied.json.version).toBe(2);
 
     const stale = await call(applyRoute, { method: "POST", params: { projectId: w.projectId, photoId }, cookie: w.cookies.lead, body: { version: 1 } });

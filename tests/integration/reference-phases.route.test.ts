@@ -23,7 +23,7 @@ const SYLVITE = readFileSync("lib/science/minerals/cif/sylvite.cif", "utf8");
 /** Independent reference: gemmi 0.5.7 (Debian python3-gemmi), see tests/fixtures/gemmi/README.md. */
 const gemmi = (name: string) => JSON.parse(readFileSync(`tests/fixtures/gemmi/${name}.json`, "utf8")) as { wavelength: number; lines: { d: number; I: number }[]; complete_above: number };
 
-const bragg2theta = (d: number, lambda: number) => (2 * Math.asin(lambda / (2 * d)) * 180) / Math.PI; // Bragg's law, DOMAIN §3.1
+const bragg2theta = (d: number, lambda: number) => (2 * Math.asin(lambda / (2 * d)) * 180) / Math.PI; // Bragg's law
 
 function cifForm(files: { name: string; text: string }[]): FormData {
   const f = new FormData();
@@ -49,11 +49,11 @@ describe("reference library", () => {
     const q = await call(listRoute, { cookie: w.cookies.field_geologist, path: "/?q=quartz" });
     expect(q.json.items.map((i: { mineral: string }) => i.mineral)).toContain("quartz");
     const quartz = q.json.items.find((i: { mineral: string }) => i.mineral === "quartz");
-    // Strongest calculated line of quartz is 101 at d ≈ 3.343 Å (DOMAIN §4.2, handbook).
+    // Strongest calculated line of quartz is 101 at d ≈ 3.343 Å (handbook, from memory).
     expect(quartz.strongLines[0].d).toBeCloseTo(3.343, 2);
     expect(quartz.hazard).toBe("crystalline_silica");
     const asb = await call(listRoute, { cookie: w.cookies.lab_analyst, path: "/?hazard=asbestos" });
-    // DOMAIN §6: chrysotile and the amphiboles that occur in asbestos form.
+    // Common practice: chrysotile and the amphiboles that occur in asbestos form.
     expect(asb.json.items.map((i: { mineral: string }) => i.mineral).sort()).toEqual(expect.arrayContaining(["actinolite", "anthophyllite", "chrysotile", "grunerite", "riebeckite", "tremolite"]));
     expect(asb.json.canImport).toBe(true);
     // Formula search ignores spacing and brackets (issue 11 §6): "FeS2" and "Fe S2" find pyrite and marcasite.
@@ -85,7 +85,7 @@ describe("reference library", () => {
     }
     const co = await call(getRoute, { params: { referenceId: row.id }, path: "/?anode=Co", cookie: w.cookies.consultant });
     const l101 = co.json.pattern.lines.find((l: { d: number }) => Math.abs(l.d - 3.3434) < 0.002);
-    // DOMAIN §4.1: Co Kα1 1.78900 Å, quartz d 3.3434 → 31.036° 2θ.
+    // Bragg's law, recomputed: Co Kα1 1.78900 Å, quartz d 3.3434 → 31.036° 2θ.
     expect(l101.twoTheta).toBeCloseTo(31.036, 1);
     expect(l101.twoTheta).toBeCloseTo(bragg2theta(l101.d, co.json.pattern.wavelength), 6);
     const mo = await call(getRoute, { params: { referenceId: row.id }, path: "/?wavelength=0.709319", cookie: w.cookies.consultant });
@@ -138,8 +138,8 @@ describe("CIF import", () => {
     expect(errs["notes.txt"].message).toMatch(/^CIF (line 1|file)/);
     expect(errs["empty.cif"].message).toMatch(/empty/);
 
-    // The stored pattern agrees with gemmi's halite pattern (Cu Kα1, lines ≤ 90° 2θ), and with DOMAIN §3.5's
-    // sanity check for these B values: I(220)/I(200) ≈ 0.60, I(222) ≈ 0.18, I(111) ≈ 0.09.
+    // The stored pattern agrees with gemmi's halite pattern (Cu Kα1, lines ≤ 90° 2θ); these ratios
+    // for these B values are checked against gemmi: I(220)/I(200) ≈ 0.60, I(222) ≈ 0.18, I(111) ≈ 0.09.
     const got = await call(getRoute, { params: { referenceId: imp.id }, path: "/?twoThetaMax=90", cookie: w.cookies.lab_analyst });
     expect(got.json.phase.builtin).toBe(false);
     for (const g of gemmi("halite").lines) {
@@ -189,7 +189,7 @@ describe("CIF import", () => {
     expect(r.json.error.fields.files[0]).toMatch(/already in the library/);
   });
 
-  test("a site admin can import; a hazard is derived from the mineral name (DOMAIN §6)", async () => {
+  test("a site admin can import; a hazard is derived from the mineral name (common practice)", async () => {
     const r = await importAs(w.cookies.admin, [{ name: "tremolite-like.cif", text: renamed(SYLVITE, "tremolite (test)") }]);
     expect(r.status).toBe(201);
     expect(r.json.imported[0].hazard).toBe("asbestos");

@@ -85,7 +85,7 @@ describe("upload → processing → review → sign-off", () => {
     scanId = r.json.scan.id;
     firstRunId = r.json.runId;
     expect(r.json.scan).toMatchObject({ status: "uploaded", anode: "Cu", format: "xy", pointCount: 3001, instrument: "Test bench", twoThetaStart: 10, twoThetaEnd: 70 });
-    // Cu Kα1 from the anode table (DOMAIN §3.1 rounds it to 1.540593).
+    // Cu Kα1 from the anode table (ITC Vol. C 2006 Table 4.2.2.6, 1.54059292 rounded to 1.540593).
     expect(r.json.scan.wavelengthA).toBeCloseTo(1.5406, 4);
     expect(r.json.scan.settingsJson.timePerStep).toBe(1.5);
     expect(r.json.scan.settingsJson.sources).toMatchObject({ wavelength: "file", timePerStep: "form" });
@@ -119,11 +119,11 @@ describe("upload → processing → review → sign-off", () => {
     expect(r.json.run.status).toBe("done");
     const minerals = r.json.run.phases.filter((p: { confident: boolean }) => p.confident).map((p: { mineral: string }) => p.mineral);
     expect(minerals).toEqual(expect.arrayContaining(["quartz", "calcite"]));
-    // Quartz 101 at d 3.343 Å and calcite 104 at 3.035 Å (DOMAIN §4.2) are among the fitted peaks.
+    // Quartz 101 at d 3.343 Å and calcite 104 at 3.035 Å (handbook, from memory) are among the fitted peaks.
     const ds = r.json.run.peaks.map((p: { d: number }) => p.d);
     expect(ds.some((d: number) => Math.abs(d - 3.343) < 0.01)).toBe(true);
     expect(ds.some((d: number) => Math.abs(d - 3.035) < 0.01)).toBe(true);
-    // Mixture made 60 : 40 by weight; RIR quantification is semi-quantitative (tens of % relative, DOMAIN §3.4).
+    // Mixture made 60 : 40 by weight; RIR quantification is semi-quantitative (tens of % relative, common practice).
     const q = r.json.run.phases.find((p: { mineral: string }) => p.mineral === "quartz");
     expect(q.wtPercent).toBeGreaterThan(40);
     expect(q.wtPercent).toBeLessThan(80);

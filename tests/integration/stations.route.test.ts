@@ -109,7 +109,7 @@ describe("stations route handlers against a real SQLite file", () => {
     expect([got.json.lat, got.json.lon]).toEqual([37.7, -6.6]);
   });
 
-  test("a stored station converts to UTM zone 29 north (DOMAIN.md §2.4 zone formula)", async () => {
+  test("a stored station converts to UTM zone 29 north (zone formula: Snyder 1987, USGS PP 1395)", async () => {
     const got = await call(getRoute, { params: { ...P(), stationId: w.stationId }, cookie: w.cookies.lead });
     expect(toUtm(got.json.lat, got.json.lon)).toMatchObject({ zone: 29, hemisphere: "N" });
   });

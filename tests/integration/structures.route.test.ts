@@ -17,7 +17,7 @@ const structureCount = async () => (await getDb().select({ n: count() }).from(st
 const post = (body: unknown, who: keyof World["cookies"] = "field_geologist", params = P()) => call(createRoute, { method: "POST", params, cookie: w.cookies[who], body });
 
 describe("structural measurements at a station", () => {
-  test("bedding 030/40 by the right-hand rule is stored as dip direction 120, dip 40 (DOMAIN.md §2.5)", async () => {
+  test("bedding 030/40 by the right-hand rule is stored as dip direction 120, dip 40 (right-hand rule, common practice)", async () => {
     const r = await post({ convention: "rhr", feature: "bedding", strike: 30, dip: 40, generation: "s0" });
     expect(r.status, JSON.stringify(r.json)).toBe(201);
     expect(r.json).toMatchObject({ kind: "planar", dipDirection: 120, dip: 40, convention: "rhr", generation: "S0", rawAzimuth: 30, declinationApplied: false });
@@ -36,7 +36,7 @@ describe("structural measurements at a station", () => {
     expect(await structureCount()).toBe(before);
   });
 
-  test("a magnetic reading is turned to true north: true = magnetic + declination, east positive (DOMAIN.md §2.5)", async () => {
+  test("a magnetic reading is turned to true north: true = magnetic + declination, east positive (common practice; NOAA/BGS World Magnetic Model)", async () => {
     const r = await post({ convention: "dip_dipdir", feature: "foliation", dipDirection: 100, dip: 55, azimuthRef: "magnetic", declinationDeg: -1.5 });
     expect(r.status).toBe(201);
     expect(r.json).toMatchObject({ dipDirection: 98.5, rawAzimuth: 100, declinationDeg: -1.5, declinationApplied: true });
@@ -45,7 +45,7 @@ describe("structural measurements at a station", () => {
     expect(missing.json.error.fields.declinationDeg[0]).toMatch(/declination/);
   });
 
-  test("a lineation by rake 45° on plane 120/40 is stored as trend ≈ 067.5, plunge ≈ 27.0 (DOMAIN.md §2.5 check value)", async () => {
+  test("a lineation by rake 45° on plane 120/40 is stored as trend ≈ 067.5, plunge ≈ 27.0 (verified with an independent vector calculation)", async () => {
     const plane = await post({ convention: "dip_dipdir", feature: "fault", dipDirection: 120, dip: 40 });
     const r = await post({ convention: "rake", feature: "slickenline", rake: 45, planeId: plane.json.id });
     expect(r.status, JSON.stringify(r.json)).toBe(201);
@@ -54,7 +54,7 @@ describe("structural measurements at a station", () => {
     expect(r.json.planeId).toBe(plane.json.id);
   });
 
-  test("a lineation measured on a plane must lie in it (|line·normal| < sin 10°, DOMAIN.md §2.5)", async () => {
+  test("a lineation measured on a plane must lie in it (|line·normal| < sin 10°, common practice)", async () => {
     const plane = await post({ convention: "dip_dipdir", feature: "foliation", dipDirection: 120, dip: 40 });
     const ok = await post({ convention: "trend_plunge", feature: "lineation", trend: 67, plunge: 27, planeId: plane.json.id });
     expect(ok.status).toBe(201);

@@ -15,8 +15,8 @@ import type { OutboxMessage } from "@/lib/mail/outbox";
 import { call, makeWorld, type World } from "../helpers/app";
 import { linkContaining, useFakeSmtp } from "../helpers/mail";
 
-// The workflow under test is the field → lab hand-off and chain of custody of DOMAIN.md §1.3 and the sample
-// lifecycle of §1 (planned → collected → dispatched → received → prepared → scanned → … → reported).
+// The workflow under test is the field → lab hand-off and chain of custody (common practice; ISO/IEC 17025:2017
+// clause 7.4) and the usual sample lifecycle (planned → collected → dispatched → received → prepared → scanned → … → reported).
 
 const LAB = "reception@lab.example.test";
 let w: World;

@@ -12,7 +12,7 @@ let w: World;
 let file: Uint8Array;
 beforeAll(async () => {
   w = await makeWorld();
-  // Tile 15/16592/11272 covers 48.85837 N 2.29448 E (DOMAIN.md §4.1; stored at TMS row 21495).
+  // Tile 15/16592/11272 covers 48.85837 N 2.29448 E (slippy-map tile formula; stored at TMS row 21495, MBTiles 1.3).
   const path = await writeMbtiles(
     { name: "Survey orthophoto", format: "png", minzoom: "14", maxzoom: "15", bounds: "2.28,48.85,2.31,48.87", attribution: "<b>Own</b> drone survey" },
     [
