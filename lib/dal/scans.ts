@@ -5,6 +5,7 @@ import { peaks, phaseResults, processingRuns, referencePhases, samples, scans, u
 import { ensureProcessingWorker, PIPELINE_VERSION, runProgress, type RunParams, type RunProfile, type StoredFit } from "@/lib/jobs";
 import { resolveWavelength } from "@/lib/science/anodes";
 import { DEFAULT_MAX_BYTES, parseScan, ScanParseError } from "@/lib/science/scan";
+import { medianStep } from "@/lib/science/scan/step";
 import type { Scan } from "@/lib/science/types";
 import { getStorage, StorageError } from "@/lib/storage";
 import { STATUS_RANK } from "@/lib/validation/custody";
@@ -70,13 +71,6 @@ export interface FileProblem {
   column?: number;
   code?: string;
   field?: string;
-}
-
-function medianStep(x: Float64Array): number {
-  const d = new Float64Array(x.length - 1);
-  for (let i = 1; i < x.length; i++) d[i - 1] = x[i] - x[i - 1];
-  d.sort();
-  return d[d.length >> 1];
 }
 
 /** A copy of an object without one key (keeps internal columns such as file keys out of responses). */
