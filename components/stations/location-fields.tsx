@@ -93,7 +93,7 @@ export function LocationFields({
           locationSource: "device_gnss",
           locationFixedAt: new Date(pos.timestamp).toISOString(),
         };
-        // The Geolocation API's altitude is above the WGS84 ellipsoid (DOMAIN.md §2.4).
+        // The Geolocation API's altitude is above the WGS84 ellipsoid (W3C Geolocation API).
         if (c.altitude != null) Object.assign(patch, { elevationM: Math.round(c.altitude * 10) / 10, elevationRef: "ellipsoid" });
         onChange(patch);
         setGeoNote(
