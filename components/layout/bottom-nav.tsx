@@ -3,7 +3,6 @@
 import Link from "next/link";
 import { usePathname } from "next/navigation";
 import { useEffect, useState } from "react";
-import { watchOutbox } from "@/lib/client/outbox";
 import { cn } from "@/lib/utils";
 
 /**
@@ -13,7 +12,18 @@ import { cn } from "@/lib/utils";
 export function BottomNav({ projectId, canWrite }: { projectId: string; canWrite: boolean }) {
   const path = usePathname();
   const [pending, setPending] = useState(0);
-  useEffect(() => watchOutbox(projectId, ({ items }) => setPending(items.length)), [projectId]);
+  // The outbox (Dexie) loads after the first paint: the count is a hint, not part of the page.
+  useEffect(() => {
+    let live = true;
+    let stop: (() => void) | undefined;
+    void import("@/lib/client/outbox").then(({ watchOutbox }) => {
+      if (live) stop = watchOutbox(projectId, ({ items }) => setPending(items.length));
+    });
+    return () => {
+      live = false;
+      stop?.();
+    };
+  }, [projectId]);
   const base = `/projects/${projectId}`;
   const items = canWrite
     ? [

@@ -2,7 +2,7 @@ import { AppHeader } from "@/components/layout/app-header";
 import { BottomNav } from "@/components/layout/bottom-nav";
 import { ProjectNav } from "@/components/layout/project-nav";
 import { projectSections } from "@/components/layout/project-sections";
-import { OutboxAutoSync, OutboxBadge } from "@/components/sync/sync-panel";
+import { OutboxAutoSync, OutboxBadge } from "@/components/layout/outbox-lazy";
 import { ROLE_LABELS, roleAllows } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
 import { currentActor, orNotFound } from "@/lib/dal/session";
