@@ -33,7 +33,7 @@ const FIELDS: ConflictField[] = [
   "generation",
   "quality",
   "note",
-].map((key) => ({ key, label: key }));
+].map((key) => ({ key, label: key.replace(/([A-Z])/g, " $1").replace(/^./, (c) => c.toUpperCase()).replace(/ M$/, " (m)") }));
 
 const STATE_LABEL: Record<OutboxItem["state"], string> = { queued: "queued", sending: "sending", failed: "failed", conflict: "conflict" };
 const TONE = { queued: "brand", sending: "brand", failed: "danger", conflict: "oxide" } as const;
