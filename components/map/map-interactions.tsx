@@ -125,19 +125,24 @@ export function AreaSelect({ active, value, onChange }: { active: boolean; value
   );
 }
 
-/** Fits the map to the points once, when they first arrive. */
-export function FitOnce({ points, fallback }: { points: [number, number][]; fallback: L.LatLngBoundsExpression }) {
+/**
+ * Fits the map to the points once, when they have loaded (the field area, not the world). Until then the map keeps
+ * the view it opened with; with no points at all it fits `fallback`. `onFitted` gets the extent [w, s, e, n].
+ */
+export function FitOnce({ points, loading = false, fallback, onFitted }: { points: [number, number][]; loading?: boolean; fallback: L.LatLngBoundsExpression; onFitted?: (bbox: BBox) => void }) {
   const map = useMap();
   const done = useRef(false);
   useEffect(() => {
-    if (done.current) return;
+    if (done.current || loading) return;
+    done.current = true;
     if (points.length === 0) {
       map.fitBounds(fallback);
       return;
     }
-    done.current = true;
+    const b = L.latLngBounds(points);
     if (points.length === 1) map.setView(points[0], 14);
-    else map.fitBounds(L.latLngBounds(points), { padding: [30, 30], maxZoom: 15 });
-  }, [points, fallback, map]);
+    else map.fitBounds(b, { padding: [30, 30], maxZoom: 15 });
+    onFitted?.([b.getWest(), b.getSouth(), b.getEast(), b.getNorth()]);
+  }, [points, loading, fallback, map, onFitted]);
   return null;
 }

@@ -7,17 +7,21 @@ import type L from "leaflet";
 import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { useCallback, useMemo, useRef, useState } from "react";
-import { LayersControl, MapContainer, ScaleControl, TileLayer } from "react-leaflet";
+import { LayersControl, MapContainer, Rectangle, ScaleControl, TileLayer } from "react-leaflet";
 import { Button, buttonClass } from "@/components/ui/button";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { listSavedAreas } from "@/lib/client/offline-areas";
 import { OFFLINE_TILE_ATTRIBUTION } from "@/lib/map/offline-tiles";
+import { basemapSource, packageSource } from "@/lib/map/tile-sources";
 import { cn } from "@/lib/utils";
 import { bboxParam, distanceM, escapeHtml, formatDistance, inBBox } from "./geo-utils";
 import { AreaSelect, ClickPicker, FitOnce, PendingMarker } from "./map-interactions";
 import { SYMBOL_LABELS, symbolSvg, type SymbolKind } from "./marker-symbols";
 import { NewStationForm } from "./new-station-form";
+import { OfflineAreaDialog, useSavedAreas } from "./offline-area-dialog";
 import { OfflineBasemapLayer } from "./offline-basemap-layer";
 import { PointLayer } from "./point-layer";
+import { STRUCTURE_MIN_ZOOM, StructureLayer, StructureLegendRows, useStructures } from "./structure-layer";
 import { TilePackagesPanel } from "./tile-packages-panel";
 import type { BBox, MapMode, MapStation } from "./types";
 import { useMapSamples, useStations, useTilePackages } from "./use-map-data";
@@ -35,7 +39,18 @@ const WORLD: L.LatLngBoundsExpression = [
   [75, 170],
 ];
 
-function Legend() {
+/** Where the map opened last time for this project (the extent of its stations and samples), [west, south, east, north]. */
+const extentKey = (projectId: string) => `lithodex.map-extent.${projectId}`;
+function rememberedExtent(projectId: string): BBox | null {
+  try {
+    const v = JSON.parse(localStorage.getItem(extentKey(projectId)) ?? "null") as unknown;
+    return Array.isArray(v) && v.length === 4 && v.every(Number.isFinite) ? (v as BBox) : null;
+  } catch {
+    return null;
+  }
+}
+
+function Legend({ showStructures, onToggleStructures, structureCount }: { showStructures: boolean; onToggleStructures: (v: boolean) => void; structureCount: number }) {
   const kinds: SymbolKind[] = ["station", "rock", "soil", "stream", "float", "other"];
   return (
     <section aria-labelledby="legend-title">
@@ -54,6 +69,14 @@ function Legend() {
           Group of nearby points (click to zoom in)
         </li>
       </ul>
+      <h4 className="mt-3 mb-1 text-sm font-semibold">Structural measurements</h4>
+      <label className="mb-1 flex min-h-6 items-center gap-2 text-xs">
+        <input type="checkbox" checked={showStructures} onChange={(e) => onToggleStructures(e.target.checked)} data-testid="toggle-structures" />
+        Show strike/dip symbols ({structureCount}; from zoom {STRUCTURE_MIN_ZOOM} in)
+      </label>
+      <ul className="space-y-1 text-xs">
+        <StructureLegendRows />
+      </ul>
     </section>
   );
 }
@@ -66,6 +89,18 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
   const stationsQ = useStations(projectId);
   const samplesQ = useMapSamples(projectId, filterQuery);
   const packagesQ = useTilePackages(projectId);
+  const structuresQ = useStructures(projectId);
+  const [showStructures, setShowStructures] = useState(true);
+  const [offlineOpen, setOfflineOpen] = useState(false);
+  const [drawingOffline, setDrawingOffline] = useState(false);
+  const [mapObj, setMapObj] = useState<L.Map | null>(null);
+  const [savedAreas, refreshSavedAreas] = useSavedAreas(projectId);
+  // Open at the project's field area straight away (also offline): the extent its stations had last time, else the
+  // newest area saved for offline use; the stations' own extent follows once they load.
+  const [initialExtent] = useState<BBox | null>(() => {
+    const a = listSavedAreas(projectId)[0];
+    return rememberedExtent(projectId) ?? (a ? [a.bbox.west, a.bbox.south, a.bbox.east, a.bbox.north] : null);
+  });
   const stations = useMemo(() => stationsQ.data ?? [], [stationsQ.data]);
   const samples = useMemo(() => samplesQ.data?.samples ?? [], [samplesQ.data]);
 
@@ -78,6 +113,14 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
 
   const movingStation = mode.kind === "move" ? stations.find((s) => s.id === mode.stationId) : undefined;
   const points = useMemo<[number, number][]>(() => [...stations.map((s) => [s.lat, s.lon] as [number, number]), ...samples.map((s) => [s.lat, s.lon] as [number, number])], [stations, samples]);
+
+  const tileSources = useMemo(() => [basemapSource(), ...(packagesQ.data ?? []).map((p) => packageSource(projectId, p))], [packagesQ.data, projectId]);
+  const pointsLoading = stationsQ.isLoading || samplesQ.isLoading;
+  const fallbackExtent = useMemo<L.LatLngBoundsExpression>(() => {
+    const a = savedAreas[0];
+    return a ? [[a.bbox.south, a.bbox.west], [a.bbox.north, a.bbox.east]] : WORLD;
+  }, [savedAreas]);
+  const onFitted = useCallback((b: BBox) => localStorage.setItem(extentKey(projectId), JSON.stringify(b)), [projectId]);
 
   const setModeKind = (next: MapMode) => {
     setMode(next);
@@ -146,6 +189,17 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
           <Button variant="secondary" onClick={filterToView}>
             Filter register to this view
           </Button>
+          <Button
+            variant={offlineOpen ? "primary" : "secondary"}
+            aria-pressed={offlineOpen}
+            onClick={() => {
+              setOfflineOpen((o) => !o);
+              setDrawingOffline(false);
+              if (mode.kind === "select") setModeKind({ kind: "browse" });
+            }}
+          >
+            Save area offline
+          </Button>
           {mode.kind !== "browse" && (
             <Button variant="ghost" onClick={() => setModeKind({ kind: "browse" })}>
               Cancel
@@ -161,7 +215,13 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
           </p>
         )}
         <div className={cn("relative h-[68vh] min-h-[380px] overflow-hidden rounded-lg border border-line bg-[#dfe6e4]", mode.kind !== "browse" && "ring-2 ring-oxide", (mode.kind === "place" || mode.kind === "select") && "[&_.leaflet-marker-pane_.lx-cluster]:pointer-events-none [&_.leaflet-marker-pane_.lx-symbol]:pointer-events-none")}>
-          <MapContainer id="map" ref={mapRef} center={[20, 0]} zoom={2} minZoom={1} maxZoom={19} worldCopyJump={false} className="h-full w-full" aria-label="Project map">
+          <MapContainer
+            id="map"
+            ref={(m) => {
+              mapRef.current = m;
+              if (m !== mapObj) setMapObj(m);
+            }}
+            {...(initialExtent ? { bounds: [[initialExtent[1], initialExtent[0]], [initialExtent[3], initialExtent[2]]] as L.LatLngBoundsExpression } : { center: [20, 0] as L.LatLngExpression, zoom: 2 })} minZoom={1} maxZoom={19} worldCopyJump={false} className="h-full w-full" aria-label="Project map">
             <LayersControl position="topright">
               <LayersControl.BaseLayer checked name="Offline basemap">
                 <OfflineBasemapLayer attribution={escapeHtml(OFFLINE_TILE_ATTRIBUTION)} maxZoom={19} />
@@ -183,9 +243,24 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
               })}
             </LayersControl>
             <ScaleControl position="bottomleft" imperial={false} />
-            <FitOnce points={points} fallback={WORLD} />
+            <FitOnce points={points} loading={pointsLoading} fallback={fallbackExtent} onFitted={onFitted} />
             <ClickPicker active={mode.kind === "place" || mode.kind === "move"} onPick={onPick} />
-            <AreaSelect active={mode.kind === "select"} value={area} onChange={setArea} />
+            <AreaSelect
+              active={mode.kind === "select"}
+              value={area}
+              onChange={(b) => {
+                setArea(b);
+                if (drawingOffline) {
+                  setDrawingOffline(false);
+                  setModeKind({ kind: "browse" });
+                }
+              }}
+            />
+            {showStructures && <StructureLayer structures={structuresQ.data ?? []} />}
+            {offlineOpen &&
+              savedAreas.map((a) => (
+                <Rectangle key={a.id} bounds={[[a.bbox.south, a.bbox.west], [a.bbox.north, a.bbox.east]]} pathOptions={{ color: "#1d5c63", weight: 1.5, dashArray: "4 4", fill: false }} interactive={false} />
+              ))}
             <PointLayer
               projectId={projectId}
               stations={stations}
@@ -201,6 +276,29 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
             />
             {pending && <PendingMarker position={pending} onDrag={(lat, lon) => setPending([lat, lon])} />}
           </MapContainer>
+          {offlineOpen && !drawingOffline && (
+            <div className="absolute inset-x-2 bottom-2 z-[1000] max-h-[72%] overflow-y-auto sm:right-auto sm:w-[380px]">
+              <OfflineAreaDialog
+                projectId={projectId}
+                map={mapObj}
+                drawn={area}
+                onDraw={() => {
+                  setDrawingOffline(true);
+                  setModeKind({ kind: "select" });
+                }}
+                sources={tileSources}
+                areas={savedAreas}
+                onAreasChanged={refreshSavedAreas}
+                onShow={(b) => mapRef.current?.fitBounds([[b.south, b.west], [b.north, b.east]])}
+                onClose={() => setOfflineOpen(false)}
+              />
+            </div>
+          )}
+          {drawingOffline && (
+            <p className="absolute inset-x-2 bottom-2 z-[1000] rounded bg-oxide-light px-2 py-2 text-sm shadow sm:right-auto sm:w-[380px]" role="status">
+              Drag on the map to outline the area to keep offline.
+            </p>
+          )}
           {(stationsQ.isLoading || samplesQ.isLoading) && (
             <p className="absolute bottom-2 left-1/2 z-[1000] -translate-x-1/2 rounded bg-white/90 px-2 py-1 text-xs shadow" role="status">
               Loading stations and samples…
@@ -287,7 +385,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
           </section>
         )}
 
-        <Legend />
+        <Legend showStructures={showStructures} onToggleStructures={setShowStructures} structureCount={structuresQ.data?.length ?? 0} />
 
         <section aria-labelledby="st-title">
           <h3 id="st-title" className="mb-1 font-semibold">

@@ -1,10 +1,14 @@
 /**
  * Web Mercator (EPSG:3857, spherical) tile arithmetic for XYZ-addressed raster tiles.
  *
+ * The projection formulas come from @mapbox/tilebelt (`pointToTileFraction`, `tileToBBOX`); this module keeps the
+ * input checks, the clamping at the edges of the square world and the inclusive box → tile ranges its callers rely on.
  * Pure functions: no I/O, no framework imports. Longitudes and latitudes in decimal degrees (WGS84),
  * tile columns `x` from the antimeridian eastwards, rows `y` from the north edge (XYZ / "slippy map"
  * addressing); `tmsRow` converts to TMS / MBTiles rows, which count from the south.
  */
+
+import { pointToTileFraction, tileToBBOX } from "@mapbox/tilebelt";
 
 /** Northern/southern limit of the square Web Mercator world, degrees: atan(sinh(π)). */
 export const MERCATOR_MAX_LAT = (Math.atan(Math.sinh(Math.PI)) * 180) / Math.PI;
@@ -86,11 +90,11 @@ export function lonLatToWorldPixel(
 ): { px: number; py: number } {
   assertLonLat(lon, lat);
   assertZoom(z);
-  const size = tileSize * 2 ** z;
-  const phi = (Math.max(-MERCATOR_MAX_LAT, Math.min(MERCATOR_MAX_LAT, lat)) * Math.PI) / 180;
-  const px = ((lon + 180) / 360) * size;
-  const py = ((1 - Math.asinh(Math.tan(phi)) / Math.PI) / 2) * size;
-  return { px, py };
+  const n = 2 ** z;
+  const [fx, fy] = pointToTileFraction(lon, Math.max(-MERCATOR_MAX_LAT, Math.min(MERCATOR_MAX_LAT, lat)), z);
+  // tilebelt wraps x into [0, 2^z); lon 180° is the east edge of the world here, not its west edge.
+  const x = lon === 180 ? n : fx;
+  return { px: x * tileSize, py: Math.min(n, Math.max(0, fy)) * tileSize };
 }
 
 /**
@@ -143,9 +147,8 @@ export function tileToLonLat(x: number, y: number, z: number): LonLat {
  */
 export function tileBounds(x: number, y: number, z: number): LonLatBBox {
   assertTile(x, y, z);
-  const nw = tileToLonLat(x, y, z);
-  const se = tileToLonLat(x + 1, y + 1, z);
-  return { west: nw.lon, south: se.lat, east: se.lon, north: nw.lat };
+  const [west, south, east, north] = tileToBBOX([x, y, z]);
+  return { west, south, east, north };
 }
 
 /**
