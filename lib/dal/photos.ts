@@ -107,7 +107,7 @@ function photoErrorToApp(err: PhotoError, fileName: string): AppError {
  * one transaction — if anything fails, stored files are removed again and no row remains.
  * `readFiles` runs only after the access check, so a refused caller's upload is never parsed.
  */
-export async function uploadPhotos(actor: Actor, projectId: string, owner: PhotoOwner, readFiles: () => Promise<UploadFile[]>) {
+export async function uploadPhotos(actor: Actor, projectId: string, owner: PhotoOwner, readFiles: () => Promise<UploadFile[]>, opts: { ids?: string[] } = {}) {
   await authorize(actor, projectId, "sampleId" in owner ? "sample.write" : "station.write");
   const { station } = await resolveOwner(projectId, owner);
   let files: UploadFile[];
@@ -142,8 +142,8 @@ export async function uploadPhotos(actor: Actor, projectId: string, owner: Photo
   };
   try {
     const values: (typeof photos.$inferInsert)[] = [];
-    for (const { file, p } of processed) {
-      const id = crypto.randomUUID();
+    for (const [i, { file, p }] of processed.entries()) {
+      const id = opts.ids?.[i] ?? crypto.randomUUID(); // a resumable upload keeps the device's photo id (replays find it)
       const original = await put(photoKey(projectId, id, "original", p.ext), file.bytes);
       const thumbKey = photoKey(projectId, id, "thumb", "webp");
       const displayKey = photoKey(projectId, id, "display", "webp");

@@ -52,6 +52,10 @@ const ACCESS: Record<string, Access> = {
   "GET /api/projects/[projectId]/photos/[photoId]": "project.read",
   "PATCH /api/projects/[projectId]/photos/[photoId]": "sample.write",
   "DELETE /api/projects/[projectId]/photos/[photoId]": "sample.write",
+  "POST /api/projects/[projectId]/photo-uploads": "sample.write",
+  "HEAD /api/projects/[projectId]/photo-uploads/[uploadId]": "sample.write",
+  "PATCH /api/projects/[projectId]/photo-uploads/[uploadId]": "sample.write",
+  "DELETE /api/projects/[projectId]/photo-uploads/[uploadId]": "sample.write",
   "GET /api/projects/[projectId]/samples/[sampleId]/custody": "project.read",
   "POST /api/projects/[projectId]/samples/[sampleId]/custody": "custody.write",
   "GET /api/projects/[projectId]/samples/[sampleId]/photos": "project.read",
@@ -114,7 +118,7 @@ const ACCESS: Record<string, Access> = {
   "GET /api/share/[token]/export/[format]": "public",
 };
 
-const METHODS = ["GET", "POST", "PUT", "PATCH", "DELETE"] as const;
+const METHODS = ["GET", "HEAD", "POST", "PUT", "PATCH", "DELETE"] as const;
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Handler = (req: Request, ctx: { params: Promise<any> }) => Promise<Response>;
 
@@ -160,7 +164,7 @@ describe("every route × every caller", () => {
     const route = routes.find((r) => r.key === key)!;
     const handler = await route.load();
     const [method] = key.split(" ");
-    const unsafe = method !== "GET";
+    const unsafe = method !== "GET" && method !== "HEAD";
     const ask = async (cookie?: string) => {
       const r = await call(handler, { method, params: paramsFor(route.path, w.projectId), cookie, ...(unsafe && { body: {} }) });
       return r.status;
