@@ -187,3 +187,34 @@ export async function listCodeBlocks(actor: Actor, projectId: string, device: un
     .orderBy(asc(sampleCodeBlocks.createdAt), asc(sampleCodeBlocks.firstSeq));
   return blockView(db, rows);
 }
+
+/**
+ * An import's typed codes against the reservations: codes reserved for another account are refused all together
+ * (nothing is written); the importer's own reserved codes are marked used by their samples.
+ */
+export async function checkReservedCodesForImport(tx: DbOrTx, actor: Actor, projectId: string, rows: { code: string; sampleId: string }[]): Promise<void> {
+  if (rows.length === 0) return;
+  const byCode = new Map(rows.map((r) => [r.code, r.sampleId]));
+  const hits: { code: string; userId: string; firstCode: string; lastCode: string }[] = [];
+  const codes = [...byCode.keys()];
+  for (let i = 0; i < codes.length; i += 500) {
+    hits.push(
+      ...(await tx
+        .select({ code: reservedSampleCodes.code, userId: sampleCodeBlocks.userId, firstCode: sampleCodeBlocks.firstCode, lastCode: sampleCodeBlocks.lastCode })
+        .from(reservedSampleCodes)
+        .innerJoin(sampleCodeBlocks, eq(sampleCodeBlocks.id, reservedSampleCodes.blockId))
+        .where(and(eq(reservedSampleCodes.projectId, projectId), inArray(reservedSampleCodes.code, codes.slice(i, i + 500))))),
+    );
+  }
+  const others = hits.filter((h) => h.userId !== actor.userId);
+  if (others.length > 0) {
+    const list = others.slice(0, 10).map((h) => `${h.code} (block ${h.firstCode}–${h.lastCode})`).join(", ");
+    throw invalid(`${others.length} code${others.length === 1 ? " in the file is" : "s in the file are"} reserved for another member's device: ${list}${others.length > 10 ? ", …" : ""}. Nothing was imported.`, { code: [`Reserved for another device: ${list}`] });
+  }
+  for (const h of hits) {
+    await tx
+      .update(reservedSampleCodes)
+      .set({ sampleId: byCode.get(h.code)!, usedAt: new Date() })
+      .where(and(eq(reservedSampleCodes.projectId, projectId), eq(reservedSampleCodes.code, h.code), isNull(reservedSampleCodes.sampleId)));
+  }
+}

@@ -7,6 +7,7 @@ import { SAMPLE_CSV_COLUMNS, type CsvImportError, type CsvImportParse, type CsvI
 import { runJob } from "@/lib/workers/pool";
 import { authorize, type Actor } from "./actor";
 import { audit } from "./audit";
+import { checkReservedCodesForImport } from "./code-blocks";
 import { AppError } from "./errors";
 import { formatCodeFromPattern } from "@/lib/validation/project";
 import { IGSN_NOT_ACCEPTED, isUniqueViolation } from "./samples";
@@ -174,6 +175,8 @@ export async function commitSampleImport(actor: Actor, projectId: string, raw: u
         createdBy: actor.userId,
       }));
       for (const part of chunks(values, INSERT_BATCH)) await tx.insert(samples).values(part);
+      // Typed codes reserved for a device: only the account that reserved them may use them (lib/dal/code-blocks.ts).
+      await checkReservedCodesForImport(tx, actor, projectId, values.filter((v, i) => rows[i].sample.code).map((v) => ({ code: v.code, sampleId: v.id })));
       const collected = values.filter((v) => v.status === "collected");
       for (const part of chunks(collected, INSERT_BATCH)) {
         await tx.insert(custodyEvents).values(

@@ -8,6 +8,7 @@ import { and, count, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, test } from "vitest";
 import { GET as listBlocks, POST as reserveRoute } from "@/app/api/projects/[projectId]/sample-code-blocks/route";
 import { PATCH as patchSampleRoute } from "@/app/api/projects/[projectId]/samples/[sampleId]/route";
+import { POST as importRoute } from "@/app/api/projects/[projectId]/samples/import/route";
 import { POST as createSampleRoute } from "@/app/api/projects/[projectId]/samples/route";
 import { getDb } from "@/db";
 import { projects, reservedSampleCodes, samples } from "@/db/schema";
@@ -92,6 +93,19 @@ describe("reserved sample code blocks", () => {
     const mine = await createSample(w.cookies.field_geologist, { sampleType: "chip" });
     const p = await call(patchSampleRoute, { method: "PATCH", params: { projectId: w.projectId, sampleId: mine.json.id }, cookie: w.cookies.field_geologist, body: { version: 1, code: leadCodes[1] } });
     expect(p.status).toBe(422);
+  });
+
+  test("a CSV import with another device's reserved code is refused whole; the importer's own reserved code is marked used", async () => {
+    const before = (await getDb().select({ n: count() }).from(samples).where(eq(samples.projectId, w.projectId)))[0].n;
+    const csv = (codes: string[]) => ["code,sample_type", ...codes.map((c) => `${c},soil`)].join("\n") + "\n";
+    const refused = await call(importRoute, { method: "POST", path: "/?mode=commit", params: { projectId: w.projectId }, cookie: w.cookies.field_geologist, body: { csv: csv(["IMPORT-CB-1", leadCodes[2]]) } });
+    expect(refused.status).toBe(422);
+    expect(refused.json.error.message).toContain(`1 code in the file is reserved for another member's device: ${leadCodes[2]} (block ${leadCodes[0]}–${leadCodes[4]})`);
+    expect((await getDb().select({ n: count() }).from(samples).where(eq(samples.projectId, w.projectId)))[0].n).toBe(before);
+    const ok = await call(importRoute, { method: "POST", path: "/?mode=commit", params: { projectId: w.projectId }, cookie: w.cookies.field_geologist, body: { csv: csv(["IMPORT-CB-1", phoneCodes[3]]) } });
+    expect(ok.status).toBe(201);
+    const [res] = await getDb().select().from(reservedSampleCodes).where(and(eq(reservedSampleCodes.projectId, w.projectId), eq(reservedSampleCodes.code, phoneCodes[3])));
+    expect(res.sampleId).toBeTruthy();
   });
 
   test("a create replayed with the same key returns the first sample; a reservation replayed returns the same block", async () => {
