@@ -5,6 +5,8 @@
  *   npx tsx scripts/check-first-load.ts [distDir] [--budget-kb=200] [--json=out.json]
  *
  * distDir defaults to $NEXT_DIST_DIR or .next. Exit 1 when a page is over budget, 2 when the build is missing.
+ * Known debt: scripts/first-load-exceptions.json lists pages still over the budget with the most they may weigh
+ * (a ratchet: they may shrink, not grow; remove the entry once the page is within budget).
  * Sizes: gzip level 9 of each chunk (as the browser receives it from a compressing server), 1 kB = 1000 bytes.
  */
 import { existsSync, readFileSync, readdirSync, writeFileSync } from "node:fs";
@@ -65,9 +67,15 @@ const budget = budgetKb * KB;
 console.log(`First-load JS per page (${distDir}), budget ${budgetKb} kB gzip:\n`);
 console.log(formatTable(rows, budget));
 if (jsonOut) writeFileSync(jsonOut, JSON.stringify(rows, null, 2));
-const over = rows.filter((r) => r.gzipBytes > budget);
+const exceptions = JSON.parse(readFileSync(join(import.meta.dirname, "first-load-exceptions.json"), "utf8")) as { pages: Record<string, number> };
+const allowed = (route: string) => (exceptions.pages[route] ?? budgetKb) * KB;
+const tolerated = rows.filter((r) => r.gzipBytes > budget && r.gzipBytes <= allowed(r.route));
+if (tolerated.length) {
+  console.warn(`\n${tolerated.length} page(s) over ${budgetKb} kB, tolerated for now by scripts/first-load-exceptions.json: ${tolerated.map((r) => `${r.route} (${(r.gzipBytes / KB).toFixed(1)} kB)`).join(", ")}`);
+}
+const over = rows.filter((r) => r.gzipBytes > allowed(r.route));
 if (over.length) {
   console.error(`\n${over.length} page(s) over the ${budgetKb} kB budget: ${over.map((r) => r.route).join(", ")}`);
   process.exit(1);
 }
-console.log(`\nAll ${rows.length} pages within ${budgetKb} kB gzip.`);
+console.log(tolerated.length ? `\n${rows.length - tolerated.length} of ${rows.length} pages within ${budgetKb} kB gzip; none above its recorded limit.` : `\nAll ${rows.length} pages within ${budgetKb} kB gzip.`);
