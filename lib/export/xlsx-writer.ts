@@ -116,6 +116,9 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
   const reg = wb.addWorksheet("Register", { views: [{ state: "frozen", ySplit: 1 }] });
   reg.columns = XLSX_REGISTER_COLUMNS.map((c) => ({ header: c.header, key: c.key, width: c.width, ...(c.numFmt ? { style: { numFmt: c.numFmt } } : {}) }));
   reg.getRow(1).font = { bold: true };
+  // The header row is text: without this it inherits each column's number format, and readers that go by the
+  // style (GDAL's XLSX driver) read "Collected (UTC)" as the date 1899-12-30 and lose the header row.
+  reg.getRow(1).eachCell((c) => (c.numFmt = "@"));
   reg.getRow(1).commit();
   for await (const page of exp.pages()) {
     for (const r of page) {
