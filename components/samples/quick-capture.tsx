@@ -9,7 +9,8 @@ import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { reservedCodeForOfflineSample } from "@/lib/client/code-block";
-import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
+import { enqueue, isNetworkFailure, newClientId, outboxUser } from "@/lib/client/outbox";
+import { queuePhoto } from "@/lib/client/photo-queue";
 import { SAMPLE_TYPE_LABELS } from "@/lib/format";
 import type { SampleType } from "@/lib/vocabulary";
 import { cn } from "@/lib/utils";
@@ -29,7 +30,7 @@ interface Fix {
 /**
  * "New sample here": the device position with its accuracy, a photo from the camera, type and lithology from short
  * pick lists; everything else can be added later in the full form. Without a connection the sample goes to the
- * device outbox with a client id (the photo needs a connection for now).
+ * device outbox with a client id and the photo waits on the device (IndexedDB) until the sample has been sent.
  */
 export function QuickCapture({ projectId, stations, defaultZone }: { projectId: string; stations: { id: string; code: string; name: string | null }[]; defaultZone: string | null }) {
   const router = useRouter();
@@ -108,13 +109,16 @@ export function QuickCapture({ projectId, stations, defaultZone }: { projectId: 
       if (photo) {
         const form = new FormData();
         form.append("files", photo, photo.name || "photo.jpg");
-        await fetch(`/api/projects/${projectId}/samples/${saved.id}/photos`, { method: "POST", body: form }).catch(() => undefined);
+        const sent = await fetch(`/api/projects/${projectId}/samples/${saved.id}/photos`, { method: "POST", body: form }).catch(() => null);
+        // The connection dropped after the sample: the photo waits on the device and is sent resumably.
+        if (!sent) await queuePhoto({ projectId, owner: { kind: "sample", id: saved.id }, label: `Photo of sample ${String(body.code ?? saved.id.slice(0, 8))}`, file: photo, userId: outboxUser() });
       }
       router.push(`/projects/${projectId}/samples/${saved.id}`);
     } catch (e) {
       if (!(e instanceof ApiError) && isNetworkFailure(e)) {
         const label = reserved ? `code ${reserved.code}, provisional until synced` : tag.trim() ? `tag ${tag.trim().toUpperCase()}` : "code issued on sync";
         await enqueue({ projectId, kind: "sample", action: "create", recordId: clientId, opId: clientId, label: `New sample (${label})`, body, ...(reserved && { headers: reserved.headers }) });
+        if (photo) await queuePhoto({ projectId, owner: { kind: "sample", id: clientId }, label: `Photo of new sample (${label})`, file: photo, userId: outboxUser() });
         router.push(`/projects/${projectId}/sync`);
         return;
       }
@@ -157,14 +161,11 @@ export function QuickCapture({ projectId, stations, defaultZone }: { projectId: 
         <h2 id="qc-photo" className="text-sm font-semibold">
           Photo
         </h2>
-        {online ? (
-          <label className={buttonClass("secondary", "cursor-pointer")}>
-            {photo ? "Take another photo" : "Take a photo"}
-            <input type="file" accept="image/*" capture="environment" className="sr-only" onChange={(e) => choosePhoto(e.target.files?.[0] ?? null)} data-testid="qc-photo-input" />
-          </label>
-        ) : (
-          <p className="text-sm text-muted">Photos need a connection for now: take them with the camera and add them to the sample when back online.</p>
-        )}
+        <label className={buttonClass("secondary", "cursor-pointer")}>
+          {photo ? "Take another photo" : "Take a photo"}
+          <input type="file" accept="image/*" capture="environment" className="sr-only" onChange={(e) => choosePhoto(e.target.files?.[0] ?? null)} data-testid="qc-photo-input" />
+        </label>
+        {!online && <p className="text-sm text-muted">No connection: the photo stays on this device with the sample and is sent after it, in pieces that resume after a drop.</p>}
         {/* eslint-disable-next-line @next/next/no-img-element -- a local preview (blob: URL), not a served image */}
         {preview && photo && <img src={preview} alt="Photo to attach" className="h-32 w-auto rounded-md border border-line object-cover" />}
       </section>

@@ -7,6 +7,7 @@ import { Button } from "@/components/ui/button";
 import { setCodeBlockUser, topUpCodeBlock } from "@/lib/client/code-block";
 import { discard, keepMine, requeue, setOutboxUser, syncProject, watchOutbox, type OutboxItem } from "@/lib/client/outbox";
 import { CodeBlockSummary } from "./code-block-summary";
+import { QueuedPhotos, useQueuedPhotos } from "./queued-photos";
 import { useOutbox } from "./use-outbox";
 
 const FIELDS: ConflictField[] = [
@@ -42,7 +43,8 @@ const TONE = { queued: "brand", sending: "brand", failed: "danger", conflict: "o
 export function SyncPanel({ projectId, userId, canReserve = false }: { projectId: string; userId: string; canReserve?: boolean }) {
   const { items, meta, online } = useOutbox(projectId);
   const [busy, setBusy] = useState(false);
-  const count = (s: OutboxItem["state"]) => items.filter((i) => i.state === s).length;
+  const photos = useQueuedPhotos(projectId);
+  const count = (s: OutboxItem["state"]) => items.filter((i) => i.state === s).length + photos.filter((p) => p.state === s).length;
 
   async function syncNow() {
     setBusy(true);
@@ -68,7 +70,8 @@ export function SyncPanel({ projectId, userId, canReserve = false }: { projectId
         Last successful sync: {meta?.lastSyncAt ? new Date(meta.lastSyncAt).toLocaleString() : "not yet on this device"}
         {meta?.lastResult ? ` (${meta.lastResult})` : ""}
       </p>
-      {items.length === 0 ? (
+      <QueuedPhotos items={photos} />
+      {items.length === 0 && photos.length === 0 ? (
         <p className="text-sm" data-testid="outbox-empty">
           Nothing waiting: everything saved on this device has reached the server.
         </p>
@@ -145,10 +148,11 @@ function warmFieldScreens(projectId: string) {
 export function OutboxBadge({ projectId }: { projectId: string }) {
   const [n, setN] = useState(0);
   useEffect(() => watchOutbox(projectId, ({ items }) => setN(items.length)), [projectId]);
-  if (n === 0) return null;
+  const photos = useQueuedPhotos(projectId).length;
+  if (n + photos === 0) return null;
   return (
     <a href={`/projects/${projectId}/sync`} data-testid="outbox-badge">
-      <Badge tone="oxide">{n} not yet synced</Badge>
+      <Badge tone="oxide">{n + photos} not yet synced</Badge>
     </a>
   );
 }

@@ -3,6 +3,7 @@
 import Dexie, { liveQuery, type Table } from "dexie";
 import { uuidv7 } from "uuidv7";
 import { backoffDelay, classifyResponse } from "@/lib/outbox/backoff";
+import { syncPhotos } from "./photo-queue";
 
 /**
  * The offline outbox: station and sample creates and edits saved on the device (IndexedDB through Dexie) and
@@ -69,6 +70,9 @@ let currentUserId: string | null = null;
 export function setOutboxUser(userId: string | null): void {
   currentUserId = userId;
 }
+
+/** The account whose work this device sends now (photos queued offline are stamped with it). */
+export const outboxUser = (): string | null => currentUserId;
 
 const path = (item: Pick<OutboxItem, "projectId" | "kind" | "action" | "recordId" | "url">) =>
   item.url ??
@@ -179,6 +183,11 @@ export function syncProject(projectId: string, opts: { force?: boolean; fetchImp
         else problems++;
         if (r === "queued") break; // the connection is gone; later items wait for the next round
       }
+      // Photos go after their records: one whose sample or station is still waiting here waits too.
+      const pendingRecordIds = new Set((await listOutbox(projectId)).filter((i) => i.action === "create").map((i) => i.recordId));
+      const photos = await syncPhotos(projectId, { pendingRecordIds, userId: currentUserId, force: opts.force });
+      sent += photos.sent;
+      problems += photos.waiting;
       if (sent > 0 || problems === 0) {
         await d.meta.put({ projectId, lastSyncAt: problems === 0 ? Date.now() : ((await d.meta.get(projectId))?.lastSyncAt ?? null), lastResult: `${sent} sent${problems ? `, ${problems} waiting` : ""}` });
       }
