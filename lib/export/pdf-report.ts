@@ -55,16 +55,18 @@ interface Ctx {
   t: (s: string) => string;
   bold: string;
   regular: string;
+  /** Root of the tagged structure (Document): headings, paragraphs, tables and figures in reading order. */
+  s: PDFKit.PDFStructureElement;
 }
 
 function heading(c: Ctx, text: string, size = 13) {
   const { doc } = c;
   if (doc.y > doc.page.height - MARGIN - 60) doc.addPage();
-  doc.moveDown(0.6).font(c.bold).fontSize(size).fillColor("#1F2933").text(c.t(text), MARGIN, doc.y).moveDown(0.3).font(c.regular).fontSize(9);
+  doc.moveDown(0.6).font(c.bold).fontSize(size).fillColor("#1F2933").text(c.t(text), MARGIN, doc.y, { structParent: c.s, structType: "H2" }).moveDown(0.3).font(c.regular).fontSize(9);
 }
 
 function para(c: Ctx, text: string, opts: PDFKit.Mixins.TextOptions = {}) {
-  c.doc.font(c.regular).fontSize(9).fillColor("#1F2933").text(c.t(text), MARGIN, c.doc.y, { width: c.doc.page.width - 2 * MARGIN, ...opts });
+  c.doc.font(c.regular).fontSize(9).fillColor("#1F2933").text(c.t(text), MARGIN, c.doc.y, { width: c.doc.page.width - 2 * MARGIN, structParent: c.s, structType: "P", ...opts });
 }
 
 /** Draws a simple table; returns when done. Rows that do not fit go to the next page under a repeated header. */
@@ -74,21 +76,32 @@ async function table(c: Ctx, head: string[], widths: number[], rows: AsyncIterab
   const scale = (doc.page.width - 2 * MARGIN) / total;
   const w = widths.map((x) => x * scale);
   const pad = 2.5;
-  const drawRow = (cells: string[], bold: boolean, shade: boolean) => {
+  // Table > TR > TH/TD (ISO 32000-1 §14.8.4.3.4); the repeated header on a new page is an artifact, not a row.
+  const tableStruct = doc.struct("Table");
+  c.s.add(tableStruct);
+  const drawRow = (cells: string[], bold: boolean, shade: boolean, repeat = false) => {
     doc.font(bold ? c.bold : c.regular).fontSize(fontSize);
     const h = Math.max(...cells.map((cell, i) => doc.heightOfString(c.t(cell), { width: w[i] - 2 * pad }))) + 2 * pad;
     if (doc.y + h > doc.page.height - MARGIN) {
       doc.addPage();
-      if (!bold) drawRow(head, true, true);
+      if (!bold) drawRow(head, true, true, true);
     }
     const y = doc.y;
-    if (shade) doc.rect(MARGIN, y, doc.page.width - 2 * MARGIN, h).fill(bold ? "#E7EAEE" : "#F6F7F9");
+    if (shade) {
+      doc.markContent("Artifact");
+      doc.rect(MARGIN, y, doc.page.width - 2 * MARGIN, h).fill(bold ? "#E7EAEE" : "#F6F7F9");
+      doc.endMarkedContent();
+    }
     let x = MARGIN;
     doc.fillColor("#1F2933");
+    const tr = repeat ? null : doc.struct("TR");
+    if (tr) tableStruct.add(tr);
+    if (repeat) doc.markContent("Artifact");
     cells.forEach((cell, i) => {
-      doc.font(bold ? c.bold : c.regular).fontSize(fontSize).text(c.t(cell), x + pad, y + pad, { width: w[i] - 2 * pad, lineBreak: true });
+      doc.font(bold ? c.bold : c.regular).fontSize(fontSize).text(c.t(cell), x + pad, y + pad, { width: w[i] - 2 * pad, lineBreak: true, ...(tr && { structParent: tr, structType: bold ? "TH" : "TD" }) });
       x += w[i];
     });
+    if (repeat) doc.endMarkedContent();
     doc.y = y + h;
     doc.x = MARGIN;
   };
@@ -139,22 +152,28 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
     // Document language and the title in the viewer's window bar (PDF 1.7 §14.9.2, ViewerPreferences DisplayDocTitle).
     lang: "en",
     displayTitle: true,
+    // Tagged PDF (ISO 32000-1 §14.8): structure tree with headings, paragraphs, tables and figures with alternative text.
+    tagged: true,
+    pdfVersion: "1.7",
   });
-  const c: Ctx = { doc, t: f.unicode ? (s) => s : winAnsi, bold: f.bold, regular: f.regular };
+  const root = doc.struct("Document");
+  doc.addStructure(root);
+  const c: Ctx = { doc, t: f.unicode ? (s) => s : winAnsi, bold: f.bold, regular: f.regular, s: root };
   doc.pipe(out);
   const report: RegisterReportData = await exp.report();
 
   // Title and summary.
-  doc.font(c.bold).fontSize(18).fillColor("#1F2933").text(c.t(`${exp.project.name}`), MARGIN, MARGIN);
-  doc.font(c.regular).fontSize(10).fillColor("#52606D").text(c.t(`Sample register report · ${exp.project.code}${exp.project.region ? ` · ${exp.project.region}` : ""}`));
-  doc.text(c.t(`Generated ${formatDateTime(exp.generatedAt, exp.project.timeZone)} · ${exp.source.kind === "member" ? `exported by ${exp.source.name}` : `read-only link${exp.source.label ? ` "${exp.source.label}"` : ""}`}`));
-  doc.text(c.t(`Filter: ${describeFilter(exp.filter)}`));
+  const P = { structParent: root, structType: "P" };
+  doc.font(c.bold).fontSize(18).fillColor("#1F2933").text(c.t(`${exp.project.name}`), MARGIN, MARGIN, { structParent: root, structType: "H1" });
+  doc.font(c.regular).fontSize(10).fillColor("#52606D").text(c.t(`Sample register report · ${exp.project.code}${exp.project.region ? ` · ${exp.project.region}` : ""}`), P);
+  doc.text(c.t(`Generated ${formatDateTime(exp.generatedAt, exp.project.timeZone)} · ${exp.source.kind === "member" ? `exported by ${exp.source.name}` : `read-only link${exp.source.label ? ` "${exp.source.label}"` : ""}`}`), P);
+  doc.text(c.t(`Filter: ${describeFilter(exp.filter)}`), P);
   if (exp.project.description) para(c, exp.project.description);
   heading(c, "Summary");
   const t = report.totals;
   await table(c, ["Samples", "With a position", "Stations", "With confirmed phases", "With candidates only"], [1, 1, 1, 1.3, 1.3], [[[String(t.samples), String(t.located), String(t.stations), String(t.withConfirmed), String(t.withCandidatesOnly)]]], 9);
   doc.moveDown(0.5);
-  doc.font(c.bold).fontSize(9).fillColor("#8A3B12").text(c.t("Limits of automated identification"), MARGIN, doc.y);
+  doc.font(c.bold).fontSize(9).fillColor("#8A3B12").text(c.t("Limits of automated identification"), MARGIN, doc.y, { structParent: root, structType: "H3" });
   para(c, `${IDENTIFICATION_CAVEAT} ${CONFIRMED_VS_CANDIDATE}`);
 
   // Map figure.
@@ -163,7 +182,11 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
   const { png } = await renderStaticMap(report.stations, { width: 1030, height: 640, candidates: showCandidates, mineral: exp.filter.mineral ?? null });
   const figW = doc.page.width - 2 * MARGIN;
   if (doc.y + figW * (640 / 1030) > doc.page.height - MARGIN) doc.addPage();
-  doc.image(png, MARGIN, doc.y, { width: figW });
+  root.add(
+    doc.struct("Figure", { alt: `Map of the ${report.stations.length} stations in this selection with their ${showCandidates ? "confirmed and candidate" : "confirmed"} phases; the tables below list the same phases.` }, () => {
+      doc.image(png, MARGIN, doc.y, { width: figW });
+    }),
+  );
   doc.y += figW * (640 / 1030) + 4;
   para(
     c,
@@ -174,7 +197,11 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
     const meta = await sharp(legend).metadata();
     const h = (figW * (meta.height ?? 1)) / (meta.width ?? 1);
     if (doc.y + h > doc.page.height - MARGIN) doc.addPage();
-    doc.image(legend, MARGIN, doc.y + 4, { width: figW });
+    root.add(
+      doc.struct("Figure", { alt: "Legend: symbol of each mineral on the map (colour by class, shape by group)." }, () => {
+        doc.image(legend, MARGIN, doc.y + 4, { width: figW });
+      }),
+    );
     doc.y += h + 8;
   }
 
@@ -233,7 +260,7 @@ async function produce(exp: RegisterExport, out: PassThrough): Promise<void> {
   const asbestos = [...new Set([...report.phaseSummary, ...report.candidateSummary].filter(isAsbestiform).map((p) => p.mineral))];
   if (asbestos.length) {
     doc.moveDown(0.3);
-    doc.font(c.bold).fontSize(9).fillColor("#A4161A").text(c.t(`Possible asbestiform minerals in this selection (confirmed or candidate): ${asbestos.join(", ")}.`), MARGIN, doc.y);
+    doc.font(c.bold).fontSize(9).fillColor("#A4161A").text(c.t(`Possible asbestiform minerals in this selection (confirmed or candidate): ${asbestos.join(", ")}.`), MARGIN, doc.y, { structParent: root, structType: "P" });
     para(c, ASBESTOS_CAVEAT);
   }
   if (report.phaseSummary.some((p) => p.hazard === "crystalline_silica" || ["quartz", "cristobalite"].includes(p.mineral))) {
