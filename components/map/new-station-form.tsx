@@ -63,7 +63,7 @@ export function NewStationForm({
   const err = (k: string) => fields[k];
   return (
     <form onSubmit={submit} className="space-y-3" aria-label="New station" noValidate>
-      <h3 className="font-semibold">New station</h3>
+      <h2 className="font-semibold">New station</h2>
       <p className="text-xs text-muted">Picked on the map: accuracy is the map&apos;s, not a GNSS fix. Drag the pin or type exact coordinates.</p>
       <div className="grid grid-cols-2 gap-2">
         <Field label="Latitude (°)" htmlFor="ns-lat" error={err("lat")}>

@@ -117,9 +117,9 @@ export function OfflineAreaDialog({ projectId, map, drawn, onDraw, sources, area
   return (
     <section role="dialog" aria-labelledby="oa-title" aria-modal="false" className="space-y-3 rounded-lg border border-line bg-white p-3 text-sm shadow-lg" data-testid="offline-area-dialog">
       <div className="flex items-start justify-between gap-2">
-        <h3 id="oa-title" className="font-semibold">
+        <h2 id="oa-title" className="font-semibold">
           Make this area available offline
-        </h3>
+        </h2>
         <button type="button" onClick={onClose} disabled={busy} className="min-h-6 px-1 text-muted hover:text-ink" aria-label="Close the offline area panel">
           ✕
         </button>
@@ -244,7 +244,7 @@ export function OfflineAreaDialog({ projectId, map, drawn, onDraw, sources, area
       )}
 
       <div>
-        <h4 className="text-xs font-semibold">Saved on this device ({areas.length})</h4>
+        <h3 className="text-xs font-semibold">Saved on this device ({areas.length})</h3>
         {areas.length === 0 ? (
           <p className="text-xs text-muted">No saved areas yet.</p>
         ) : (

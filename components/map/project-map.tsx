@@ -54,9 +54,9 @@ function Legend({ showStructures, onToggleStructures, structureCount }: { showSt
   const kinds: SymbolKind[] = ["station", "rock", "soil", "stream", "float", "other"];
   return (
     <section aria-labelledby="legend-title">
-      <h3 id="legend-title" className="mb-1 font-semibold">
+      <h2 id="legend-title" className="mb-1 font-semibold">
         Legend
-      </h3>
+      </h2>
       <ul className="space-y-1 text-xs">
         {kinds.map((k) => (
           <li key={k} className="flex items-center gap-2">
@@ -69,7 +69,7 @@ function Legend({ showStructures, onToggleStructures, structureCount }: { showSt
           Group of nearby points (click to zoom in)
         </li>
       </ul>
-      <h4 className="mt-3 mb-1 text-sm font-semibold">Structural measurements</h4>
+      <h3 className="mt-3 mb-1 text-sm font-semibold">Structural measurements</h3>
       <label className="mb-1 flex min-h-6 items-center gap-2 text-xs">
         <input type="checkbox" checked={showStructures} onChange={(e) => onToggleStructures(e.target.checked)} data-testid="toggle-structures" />
         Show strike/dip symbols ({structureCount}; from zoom {STRUCTURE_MIN_ZOOM} in)
@@ -277,7 +277,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
             {pending && <PendingMarker position={pending} onDrag={(lat, lon) => setPending([lat, lon])} />}
           </MapContainer>
           {offlineOpen && !drawingOffline && (
-            <div className="absolute inset-x-2 bottom-2 z-[1000] max-h-[72%] overflow-y-auto sm:right-auto sm:w-[380px]">
+            <div className="absolute inset-x-2 top-2 z-[1000] max-h-[calc(100%-5rem)] overflow-y-auto overscroll-contain sm:top-auto sm:bottom-2 sm:right-auto sm:w-[380px]" data-testid="offline-area-panel">
               <OfflineAreaDialog
                 projectId={projectId}
                 map={mapObj}
@@ -295,7 +295,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
             </div>
           )}
           {drawingOffline && (
-            <p className="absolute inset-x-2 bottom-2 z-[1000] rounded bg-oxide-light px-2 py-2 text-sm shadow sm:right-auto sm:w-[380px]" role="status">
+            <p className="absolute inset-x-2 top-2 z-[1000] rounded bg-oxide-light px-2 py-2 text-sm shadow sm:top-auto sm:bottom-2 sm:right-auto sm:w-[380px]" role="status">
               Drag on the map to outline the area to keep offline.
             </p>
           )}
@@ -340,7 +340,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
 
         {mode.kind === "move" && movingStation && movePos && (
           <section className="space-y-2 rounded border border-oxide bg-oxide-light p-3 text-sm" aria-label="Move station">
-            <h3 className="font-semibold">Move station {movingStation.code}</h3>
+            <h2 className="font-semibold">Move station {movingStation.code}</h2>
             <p>Drag the highlighted diamond or click the map for the new position.</p>
             <dl className="grid grid-cols-[auto_1fr] gap-x-2 text-xs tabular-nums">
               <dt>From</dt>
@@ -368,7 +368,7 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
 
         {area && inArea && (
           <section className="space-y-2 rounded border border-line bg-white p-3 text-sm" aria-label="Selected area">
-            <h3 className="font-semibold">Selected area</h3>
+            <h2 className="font-semibold">Selected area</h2>
             <p className="text-xs tabular-nums text-muted">W {area[0].toFixed(4)} · S {area[1].toFixed(4)} · E {area[2].toFixed(4)} · N {area[3].toFixed(4)}</p>
             <p>
               {inArea.samples} sample{inArea.samples === 1 ? "" : "s"} and {inArea.stations} station{inArea.stations === 1 ? "" : "s"} inside.
@@ -388,9 +388,9 @@ export default function ProjectMap({ projectId, filterQuery, canEditStations, ca
         <Legend showStructures={showStructures} onToggleStructures={setShowStructures} structureCount={structuresQ.data?.length ?? 0} />
 
         <section aria-labelledby="st-title">
-          <h3 id="st-title" className="mb-1 font-semibold">
+          <h2 id="st-title" className="mb-1 font-semibold">
             Stations ({stations.length})
-          </h3>
+          </h2>
           <ul className="max-h-64 space-y-0.5 overflow-y-auto text-sm" data-testid="station-list">
             {[...stations]
               .sort((a, b) => a.code.localeCompare(b.code))

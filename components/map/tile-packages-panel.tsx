@@ -31,9 +31,9 @@ export function TilePackagesPanel({ projectId, packages, canManage }: { projectI
 
   return (
     <section aria-labelledby="tp-title" className="space-y-2">
-      <h3 id="tp-title" className="font-semibold">
+      <h2 id="tp-title" className="font-semibold">
         Map layers (MBTiles)
-      </h3>
+      </h2>
       {packages.length === 0 ? (
         <p className="text-xs text-muted">No packages yet. Layers appear in the map&apos;s layer switcher (top right).</p>
       ) : (
