@@ -11,6 +11,7 @@ import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { formatDistance, greatCircleDistanceM } from "@/lib/geo/distance";
 import { formatDmsPair } from "@/lib/geo/dms";
 import { PhotoUploader } from "./photo-uploader";
+import { parseAzimuth } from "@/lib/photos/azimuth";
 import type { Photo } from "./types";
 
 /** The sample a gallery belongs to, for "use this photo's position". */
@@ -27,7 +28,74 @@ function taken(p: Photo): string {
   return "time not recorded";
 }
 
-function PhotoDetail({ projectId, photo, sample, canWrite, onDeleted }: { projectId: string; photo: Photo; sample?: GallerySample; canWrite: boolean; onDeleted: () => void }) {
+/** Caption and azimuth the camera faced, editable by those who may edit photos. */
+function PhotoEdit({ projectId, photo, onSaved }: { projectId: string; photo: Photo; onSaved: () => void }) {
+  const [caption, setCaption] = useState(photo.caption ?? "");
+  const [azimuth, setAzimuth] = useState(photo.imgDirection != null ? String(Math.round(photo.imgDirection * 10) / 10) : "");
+  const [ref, setRef] = useState<"T" | "M">(photo.imgDirectionRef === "M" ? "M" : "T");
+  const [error, setError] = useState<string | null>(null);
+  const [saved, setSaved] = useState(false);
+  const [busy, setBusy] = useState(false);
+  async function save() {
+    const az = parseAzimuth(azimuth);
+    setSaved(false);
+    if (!az.ok) return setError(az.error);
+    setError(null);
+    setBusy(true);
+    try {
+      await fetchJson(`/api/projects/${projectId}/photos/${photo.id}`, { method: "PATCH", json: { caption: caption.trim() || null, imgDirection: az.value, imgDirectionRef: az.value === null ? null : ref } });
+      setSaved(true);
+      onSaved();
+    } catch (e) {
+      setError(e instanceof ApiError ? [e.message, ...Object.values(e.fields ?? {}).flat()].join(" ") : (e as Error).message);
+    } finally {
+      setBusy(false);
+    }
+  }
+  return (
+    <form
+      className="space-y-2 rounded border border-line p-2"
+      aria-label="Edit caption and azimuth"
+      onSubmit={(e) => {
+        e.preventDefault();
+        void save();
+      }}
+    >
+      <label className="block text-xs">
+        Caption
+        <input className="mt-1 w-full rounded border border-line px-2 py-1 text-sm" value={caption} maxLength={500} onChange={(e) => setCaption(e.target.value)} data-testid="photo-caption" />
+      </label>
+      <div className="flex flex-wrap items-end gap-2">
+        <label className="text-xs">
+          Azimuth (° from north, 0–360)
+          <input className="mt-1 block w-24 rounded border border-line px-2 py-1 text-sm" inputMode="decimal" value={azimuth} onChange={(e) => setAzimuth(e.target.value)} aria-invalid={!!error} data-testid="photo-azimuth" />
+        </label>
+        <label className="text-xs">
+          North
+          <select className="mt-1 block rounded border border-line px-2 py-1 text-sm" value={ref} onChange={(e) => setRef(e.target.value as "T" | "M")}>
+            <option value="T">true</option>
+            <option value="M">magnetic</option>
+          </select>
+        </label>
+        <Button type="submit" variant="secondary" disabled={busy}>
+          {busy ? "Saving…" : "Save"}
+        </Button>
+      </div>
+      {error && (
+        <p role="alert" className="text-xs text-danger">
+          {error}
+        </p>
+      )}
+      {saved && !error && (
+        <p role="status" className="text-xs text-ok">
+          Saved.
+        </p>
+      )}
+    </form>
+  );
+}
+
+function PhotoDetail({ projectId, photo, sample, canWrite, onDeleted, onChanged }: { projectId: string; photo: Photo; sample?: GallerySample; canWrite: boolean; onDeleted: () => void; onChanged: () => void }) {
   const router = useRouter();
   const [busy, setBusy] = useState(false);
   const [message, setMessage] = useState<{ tone: "ok" | "danger"; text: string } | null>(null);
@@ -111,6 +179,7 @@ function PhotoDetail({ projectId, photo, sample, canWrite, onDeleted }: { projec
           </p>
         )}
         {fromSample != null && <p className="text-xs text-muted">The sample&apos;s recorded position is {formatDistance(fromSample)} from this photo&apos;s.</p>}
+        {canWrite && <PhotoEdit key={photo.id} projectId={projectId} photo={photo} onSaved={onChanged} />}
         {canWrite && sample && g && (
           <div className="space-y-2 rounded border border-line p-2">
             <label className="flex items-center gap-2 text-xs">
@@ -226,6 +295,7 @@ export function PhotoGallery({
                 dialog.current?.close();
                 void refresh();
               }}
+              onChanged={() => void refresh()}
             />
           )}
         </div>

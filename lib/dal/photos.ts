@@ -232,13 +232,21 @@ export async function readPhotoVariant(actor: Actor, projectId: string, photoId:
   };
 }
 
-/** Edits the caption (sample.write). */
+/** Edits the caption and the azimuth the camera faced with its reference (sample.write); fields left out keep their value. */
 export async function updatePhoto(actor: Actor, projectId: string, photoId: string, raw: unknown): Promise<PhotoView> {
   await authorize(actor, projectId, "sample.write");
   const patch = validateInput(photoPatchSchema, raw);
   const before = await photoRow(projectId, photoId);
   const [row] = await getDb().transaction(async (tx) => {
-    const out = await tx.update(photos).set({ caption: patch.caption ?? null }).where(eq(photos.id, photoId)).returning();
+    const changes: Partial<typeof photos.$inferInsert> = {};
+    if (patch.caption !== undefined) changes.caption = patch.caption ?? null;
+    if (patch.imgDirection !== undefined) {
+      changes.imgDirection = patch.imgDirection === 360 ? 0 : patch.imgDirection; // 360° is north again
+      // an azimuth without a stated reference keeps the photo's, or true north (EXIF's default for GPSImgDirectionRef is "T", CIPA DC-008-2012; from memory)
+      changes.imgDirectionRef = patch.imgDirection === null ? null : (patch.imgDirectionRef ?? before.imgDirectionRef ?? "T");
+    } else if (patch.imgDirectionRef !== undefined) changes.imgDirectionRef = patch.imgDirectionRef;
+    if (Object.keys(changes).length === 0) return [before];
+    const out = await tx.update(photos).set(changes).where(eq(photos.id, photoId)).returning();
     await audit(tx, actor, { projectId, action: "update", entity: "photo", entityId: photoId, before, after: out[0] });
     return out;
   });

@@ -192,3 +192,28 @@ describe("resumable photo upload (tus)", () => {
     expect(readdirSync(photoUploadDir()).filter((f) => f.startsWith(uploadId))).toEqual([]);
   });
 });
+
+describe("gallery edits: caption and azimuth", () => {
+  test("azimuth 0–360 (EXIF GPSImgDirection range, CIPA DC-008-2012) is stored with its reference; outside it a clear 422; caption kept when not sent", async () => {
+    const { PATCH: patchPhoto } = await import("@/app/api/projects/[projectId]/photos/[photoId]/route");
+    const c = await open("field_geologist", gpsPhoto.byteLength, { clientPhotoId: randomUUID(), sampleId, filename: "edit.jpg" });
+    const done = await patch(idOf(c.headers.get("location")), 0, gpsPhoto);
+    const photoId = done.json.photo.id;
+    const edit = (body: unknown, who: keyof World["cookies"] = "field_geologist") =>
+      call(patchPhoto, { method: "PATCH", params: { projectId: w.projectId, photoId }, cookie: w.cookies[who], body, headers: { origin: ORIGIN } });
+    const a = await edit({ caption: "Gossan face, looking NE", imgDirection: 47.5, imgDirectionRef: "M" });
+    expect(a.status, JSON.stringify(a.json)).toBe(200);
+    expect(a.json).toMatchObject({ caption: "Gossan face, looking NE", imgDirection: 47.5, imgDirectionRef: "M" });
+    const b = await edit({ imgDirection: 360 });
+    expect(b.json).toMatchObject({ caption: "Gossan face, looking NE", imgDirection: 0, imgDirectionRef: "M" }); // 360° = 0°, north
+    for (const bad of [-1, 360.5, 725]) {
+      const r = await edit({ imgDirection: bad });
+      expect(r.status).toBe(422);
+      expect(r.json.error.fields.imgDirection[0]).toMatch(/between 0 and 360 degrees/);
+    }
+    expect((await edit({ imgDirectionRef: "X" })).json.error.fields.imgDirectionRef[0]).toMatch(/T \(true north\) or M/);
+    expect((await edit({ caption: "x" }, "consultant")).status).toBe(403);
+    const cleared = await edit({ imgDirection: null });
+    expect(cleared.json).toMatchObject({ imgDirection: null, imgDirectionRef: null });
+  });
+});
