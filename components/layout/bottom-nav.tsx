@@ -7,7 +7,7 @@ import { cn } from "@/lib/utils";
 
 /**
  * The field geologist's destinations at the bottom of a phone screen (hidden from md up, where the tabs fit):
- * map, stations, new sample (quick capture) and sync with the number of records not yet sent.
+ * map, stations, new sample (quick capture) and sync with the number of records and photos not yet sent.
  */
 export function BottomNav({ projectId, canWrite }: { projectId: string; canWrite: boolean }) {
   const path = usePathname();
@@ -16,12 +16,18 @@ export function BottomNav({ projectId, canWrite }: { projectId: string; canWrite
   useEffect(() => {
     let live = true;
     let stop: (() => void) | undefined;
-    void import("@/lib/client/outbox").then(({ watchOutbox }) => {
-      if (live) stop = watchOutbox(projectId, ({ items }) => setPending(items.length));
+    let stopPhotos: (() => void) | undefined;
+    let records = 0;
+    let photos = 0;
+    void Promise.all([import("@/lib/client/outbox"), import("@/lib/client/photo-queue")]).then(([{ watchOutbox }, { watchPhotoQueue }]) => {
+      if (!live) return;
+      stop = watchOutbox(projectId, ({ items }) => setPending((records = items.length) + photos));
+      stopPhotos = watchPhotoQueue(projectId, (items) => setPending(records + (photos = items.length)));
     });
     return () => {
       live = false;
       stop?.();
+      stopPhotos?.();
     };
   }, [projectId]);
   const base = `/projects/${projectId}`;
