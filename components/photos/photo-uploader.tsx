@@ -2,14 +2,24 @@
 
 import { useRef, useState } from "react";
 import { buttonClass } from "@/components/ui/button";
+import { outboxUser } from "@/lib/client/outbox";
+import { queuePhoto } from "@/lib/client/photo-queue";
 import { cn } from "@/lib/utils";
 import { MAX_PHOTO_BYTES, type Photo } from "./types";
 
-type Status = { state: "queued" } | { state: "uploading"; percent: number } | { state: "processing" } | { state: "done"; notices: string[] } | { state: "error"; message: string };
+type Status = { state: "on-device" } | { state: "queued" } | { state: "uploading"; percent: number } | { state: "processing" } | { state: "done"; notices: string[] } | { state: "error"; message: string };
 interface Item {
   key: string;
   file: File;
   status: Status;
+}
+
+class NetworkDrop extends Error {}
+
+/** The project and the sample or station of an upload URL (/api/projects/:p/samples|stations/:id/photos). */
+function ownerOfUrl(url: string): { projectId: string; owner: { kind: "sample" | "station"; id: string } } | null {
+  const m = /\/api\/projects\/([^/]+)\/(samples|stations)\/([^/]+)\/photos$/.exec(url);
+  return m ? { projectId: m[1], owner: { kind: m[2] === "samples" ? "sample" : "station", id: m[3] } } : null;
 }
 
 /** Sends one file with upload progress (fetch cannot report upload progress; XMLHttpRequest can). */
@@ -24,7 +34,7 @@ function sendOne(url: string, file: File, onProgress: (p: number) => void, onSen
       if (xhr.status >= 200 && xhr.status < 300) resolve(xhr.response);
       else reject(new Error(xhr.response?.error?.message ?? `Upload failed (${xhr.status}).`));
     };
-    xhr.onerror = () => reject(new Error("Network error — the photo was not uploaded. Check the connection and try again."));
+    xhr.onerror = () => reject(new NetworkDrop("Network error — the photo was not uploaded. Check the connection and try again."));
     const fd = new FormData();
     fd.append("files", file, file.name);
     xhr.send(fd);
@@ -63,7 +73,12 @@ export function PhotoUploader({ uploadUrl, onUploaded }: { uploadUrl: string; on
           update(key, { state: "done", notices: res.notices.flatMap((n) => n.messages) });
           onUploaded();
         } catch (e) {
-          update(key, { state: "error", message: (e as Error).message });
+          const o = e instanceof NetworkDrop ? ownerOfUrl(uploadUrl) : null;
+          if (o) {
+            // No connection: the photo waits on this device and is sent resumably by the sync (see the sync page).
+            await queuePhoto({ ...o, label: `Photo of ${o.owner.kind} (${item.file.name})`, file: item.file, userId: outboxUser() });
+            update(key, { state: "on-device" });
+          } else update(key, { state: "error", message: (e as Error).message });
         }
       }
     };
@@ -115,6 +130,7 @@ export function PhotoUploader({ uploadUrl, onUploaded }: { uploadUrl: string; on
                   {status.state === "processing" && "Processing…"}
                   {status.state === "done" && "Uploaded"}
                   {status.state === "error" && "Not uploaded"}
+                  {status.state === "on-device" && "Saved on this device — sent when online"}
                 </span>
               </div>
               {status.state === "uploading" && (
