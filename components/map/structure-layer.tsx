@@ -1,6 +1,7 @@
 "use client";
 
 import { useQuery } from "@tanstack/react-query";
+import { structureKeys } from "@/lib/client/query-keys";
 import L from "leaflet";
 import { useState } from "react";
 import { Marker, useMapEvents } from "react-leaflet";
@@ -36,8 +37,7 @@ const LINE_COLOUR = "#5b2a86";
 /** Every structural measurement of the project, with its station's position. */
 export function useStructures(projectId: string) {
   return useQuery({
-    // eslint-disable-next-line no-restricted-syntax -- the key factory (lib/client/query-keys.ts) is another developer's; move this key there
-    queryKey: ["structures", projectId, "map"],
+    queryKey: structureKeys.map(projectId),
     queryFn: async () => (await fetchJson<{ items: MapStructure[] }>(`/api/projects/${projectId}/structures`)).items,
   });
 }

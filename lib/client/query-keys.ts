@@ -25,6 +25,12 @@ export const stationKeys = {
   map: (projectId: string) => [...stationKeys.all(projectId), "map"] as const,
 };
 
+/** Structural measurements (strike/dip, trend/plunge) of the project's stations. */
+export const structureKeys = {
+  all: (projectId: string) => ["structures", projectId] as const,
+  map: (projectId: string) => [...structureKeys.all(projectId), "map"] as const,
+};
+
 export const photoKeys = {
   all: (projectId: string) => ["photos", projectId] as const,
   owner: (projectId: string, owner: PhotoOwner) =>
