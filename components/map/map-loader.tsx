@@ -3,7 +3,7 @@
 import dynamic from "next/dynamic";
 import type { ProjectMapProps } from "./project-map";
 
-/** Leaflet touches `window` on import, so the map loads in the browser only (STACK.md pitfall 12). */
+/** Leaflet touches `window` on import, so the map loads in the browser only. */
 const ProjectMap = dynamic(() => import("./project-map"), {
   ssr: false,
   loading: () => (

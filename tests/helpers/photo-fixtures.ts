@@ -18,7 +18,7 @@ export function noise(width: number, height: number, seed = 7): Buffer {
   return px;
 }
 
-/** A JPEG with GPS −33.8678, 151.2072 written by sharp's withExif (STACK.md pitfall 17) plus time and direction. */
+/** A JPEG with GPS −33.8678, 151.2072 written by sharp's withExif (GPS IFD as EXIF rationals, CIPA DC-008 Exif 2.32) plus time and direction. */
 export async function jpegWithGps(): Promise<Buffer> {
   return sharp({ create: { width: 64, height: 48, channels: 3, background: "#a0522d" } })
     .jpeg()

@@ -172,7 +172,7 @@ describe("photo upload, listing, bytes and deletion", () => {
   });
 
   test("applying a photo's GPS to its sample when the caller chooses to; a stale version is 409 and changes nothing", async () => {
-    // STACK.md pitfall 17 position, written as EXIF rationals 33°52′4″ S 151°12′26″ E → −33.8678, 151.2072
+    // The fixture position (tests/helpers/photo-fixtures.ts), written as EXIF rationals 33°52′4″ S 151°12′26″ E → −33.8678, 151.2072
     const s = await call(createSampleRoute, { method: "POST", params: { projectId: w.projectId }, cookie: w.cookies.lead, body: { sampleType: "float" } });
     const id = s.json.id;
     const up = await upload(form({ name: "sydney.jpg", bytes: await jpegAt(-(33 + 52 / 60 + 4 / 3600), 151 + 12 / 60 + 26 / 3600, { GPSAltitudeRef: "0", GPSAltitude: "58/1" }) }), "field_geologist", id);

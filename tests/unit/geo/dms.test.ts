@@ -33,7 +33,7 @@ describe("parseLatLon", () => {
   });
 
   test("southern/eastern hemisphere: 33°52'4\"S 151°12'26\"E", () => {
-    // STACK.md pitfall 17 fixture: 33/1 52/1 4/1 S, 151/1 12/1 26/1 E → −33.8678, 151.2072
+    // The photo fixture (tests/helpers/photo-fixtures.ts): 33/1 52/1 4/1 S, 151/1 12/1 26/1 E → −33.8678, 151.2072
     const r = parseLatLon(`33°52'4"S 151°12'26"E`);
     expect(r.ok && r.lat).toBeCloseTo(-33.8678, 4);
     expect(r.ok && r.lon).toBeCloseTo(151.2072, 4);

@@ -4,7 +4,7 @@ import { exifLocalDateTime, localToUtc, readPhotoMetadata } from "@/lib/photos/e
 import { EXIFTOOL, exiftoolRead, exiftoolWrite, jpegOrientation6, jpegWithGps } from "../../helpers/photo-fixtures";
 
 describe("readPhotoMetadata", () => {
-  test("GPS written by sharp .withExif reads back as −33.8678, 151.2072 (STACK.md pitfall 17)", async () => {
+  test("GPS written by sharp .withExif reads back as −33.8678, 151.2072 (CIPA DC-008 GPS tags)", async () => {
     const meta = await readPhotoMetadata(await jpegWithGps());
     // 33°52′04″ S = −(33 + 52/60 + 4/3600) = −33.86778; 151°12′26″ E = 151.20722 (three rationals D, M, S; CIPA DC-008, Exif 2.32)
     expect(meta.gps?.lat).toBeCloseTo(-33.8678, 4);
@@ -24,7 +24,7 @@ describe("readPhotoMetadata", () => {
   });
 
   test.skipIf(!EXIFTOOL)("a photo tagged by exiftool (46.5197 N, 6.6323 E, 372 m, magnetic 80°) reads back", async () => {
-    // STACK.md pitfall 17 gives this exiftool command line
+    // The same tags written with exiftool (an independent EXIF writer)
     const base = await sharp({ create: { width: 32, height: 32, channels: 3, background: "#777" } }).jpeg().toBuffer();
     const tagged = exiftoolWrite(base, [
       "-GPSLatitude=46.5197",
@@ -54,7 +54,7 @@ describe("readPhotoMetadata", () => {
     expect((await readPhotoMetadata(tagged)).gps?.altitudeM).toBeCloseTo(-430, 6);
   });
 
-  test("time taken: DateTimeOriginal + OffsetTimeOriginal → UTC instant; the server's zone plays no part (STACK.md pitfall 16)", async () => {
+  test("time taken: DateTimeOriginal + OffsetTimeOriginal → UTC instant; the server's zone plays no part (CIPA DC-008 Exif 2.32, OffsetTimeOriginal)", async () => {
     const meta = await readPhotoMetadata(await jpegWithGps());
     expect(meta.takenLocal).toBe("2026-03-14T10:05:22");
     expect(meta.takenOffset).toBe("+11:00");

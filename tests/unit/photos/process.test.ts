@@ -70,7 +70,7 @@ describe("processPhoto", () => {
 
   test("GPS and time come through processing", async () => {
     const p = await processPhoto(await jpegWithGps(), "gps.jpg");
-    expect(p.metadata.gps?.lat).toBeCloseTo(-33.8678, 4); // STACK.md pitfall 17
+    expect(p.metadata.gps?.lat).toBeCloseTo(-33.8678, 4); // the photo fixture's GPS position
     expect(p.notices).toEqual([]);
   });
 
