@@ -26,7 +26,7 @@ export interface MapStructure {
 }
 
 /** Symbols are drawn from this zoom up; further out they would cover each other. */
-export const STRUCTURE_MIN_ZOOM = 12;
+export const STRUCTURE_MIN_ZOOM = 11;
 
 /** Size on the map: a 48 px strike line and a 16 px dip tick, so the tick clears the 22 px station diamond. */
 const SIZE = { half: 24, tick: 16, arrow: 26 };
