@@ -2,7 +2,7 @@
  * The service worker (built by @serwist/turbopack's route, app/serwist/[path]/route.ts, and served as /serwist/sw.js).
  * Precaches the built static assets, Leaflet's files, the icons and the manifest; caches at runtime the pages a
  * person opened (network first, so a reload without signal shows the last copy), the project's reference lists
- * (stations, members, tile packages, structural measurements) and map tiles (the bundled basemap under /tiles-offline and imported MBTiles).
+ * (stations, members, tile packages, structural measurements), the sample lists the map and register read, and map tiles (the bundled basemap under /tiles-offline and imported MBTiles).
  * Nothing that writes is cached: POST/PATCH/DELETE go to the network, and the outbox (lib/client/outbox.ts) keeps
  * what could not be sent.
  */
@@ -27,6 +27,13 @@ const isReferenceList = (o: RouteMatchCallbackOptions) =>
   sameOrigin(o) && o.request.method === "GET" && /^\/api\/projects\/[^/]+\/(stations|members|tile-packages|structures)\/?$/.test(o.url.pathname);
 
 /**
+ * The project's samples as the map and the register read them (the map's GeoJSON layer, register pages): last copy
+ * served without signal, so an offline map still shows where the samples are.
+ */
+const isSampleList = (o: RouteMatchCallbackOptions) =>
+  sameOrigin(o) && o.request.method === "GET" && (/^\/api\/projects\/[^/]+\/samples\/?$/.test(o.url.pathname) || (/^\/api\/projects\/[^/]+\/samples\/export\/?$/.test(o.url.pathname) && o.url.searchParams.get("format") === "geojson"));
+
+/**
  * Map tiles. A "make this area available offline" download (lib/client/offline-areas.ts) carries OFFLINE_AREA_HEADER and
  * is left to the network: the page stores those tiles itself, without a Date header, so the expiration below (which
  * only tracks what this worker cached, and treats a response without a Date as fresh) never drops a saved area.
@@ -42,6 +49,7 @@ const serwist = new Serwist({
   runtimeCaching: [
     { matcher: isTile, handler: new CacheFirst({ cacheName: MAP_TILE_CACHE, plugins: [new ExpirationPlugin({ maxEntries: 20_000, maxAgeSeconds: 180 * 24 * 3600 })] }) },
     { matcher: isReferenceList, handler: new NetworkFirst({ cacheName: "reference-lists", networkTimeoutSeconds: 6 }) },
+    { matcher: isSampleList, handler: new NetworkFirst({ cacheName: "sample-lists", networkTimeoutSeconds: 6, plugins: [new ExpirationPlugin({ maxEntries: 60 })] }) },
     { matcher: isPage, handler: new NetworkFirst({ cacheName: "pages", networkTimeoutSeconds: 6, plugins: [new ExpirationPlugin({ maxEntries: 200 })] }) },
   ],
 });

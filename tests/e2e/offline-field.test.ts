@@ -55,8 +55,11 @@ describe("offline capture on a phone", () => {
 
     await ctx.setOffline(true);
 
-    // The app opens offline.
+    // The app opens offline, with the samples on the map from the service worker's last copy of their GeoJSON.
+    const samplesOffline = page.waitForResponse((r) => r.url().includes("/samples/export?format=geojson") && r.status() === 200, { timeout: 30_000 });
     await page.goto(`${base}/map`);
+    expect((await samplesOffline).fromServiceWorker()).toBe(true);
+    await expect.poll(() => page.getByText("Loading stations and samples…").count(), { timeout: 20_000 }).toBe(0);
     await expect.poll(() => page.getByRole("button", { name: "Place station" }).count(), { timeout: 30_000 }).toBe(1);
     await page.getByRole("button", { name: "Place station" }).click();
     const box = (await page.locator("#map").boundingBox())!;
