@@ -229,6 +229,8 @@ export function StructureForm({ projectId, stationId, planes, edit, onDone }: { 
           </select>
         </Field>
         <Field label="Feature" htmlFor={`${px}-feature`} error={err("feature")}>
+          {/* Registered so the value (also a stored one being edited) stays in the form with shouldUnregister. */}
+          <input type="hidden" {...register("feature")} />
           <select id={`${px}-feature`} name="feature" className={inputClass} value={v.feature ?? ""} onChange={(e) => setValue("feature", e.target.value, { shouldValidate: formState.isSubmitted })}>
             {features.map((f) => (
               <option key={f} value={f}>

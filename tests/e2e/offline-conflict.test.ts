@@ -3,7 +3,8 @@
  * phone size, "common practice"): the field geologist's phone reserves a block of sample codes while online; offline,
  * a new sample takes the next code of the block (provisional until synced) and a station is edited while the lead
  * changes the same station on the server; back online the sample arrives with its reserved code and the station edit
- * is shown side by side (optimistic concurrency, DEVELOPERS.md) for the person to resolve — never an overwrite.
+ * is shown side by side (optimistic concurrency, DEVELOPERS.md) for the person to resolve — never an overwrite; a
+ * structural measurement edited offline arrives with the version it was made against.
  */
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
@@ -52,7 +53,14 @@ describe("offline codes and conflicts on a phone", () => {
     const list = await (await page.request.get(`${baseUrl()}/api/projects/${projectId}/stations`)).json();
     const st = list.items[0] as { id: string; code: string };
     const before = await (await page.request.get(`${baseUrl()}/api/projects/${projectId}/stations/${st.id}`)).json();
-    for (const p of ["/samples/new", `/stations/${st.id}/edit`, "/sync"]) {
+    // A measurement at the station, to be edited offline too.
+    const made = await page.request.post(`${baseUrl()}/api/projects/${projectId}/stations/${st.id}/structures`, {
+      data: { convention: "dip_dipdir", feature: "foliation", dipDirection: 40, dip: 60, note: "E2E foliation" },
+      headers: { origin: baseUrl() },
+    });
+    expect(made.status()).toBe(201);
+    const structureId = (await made.json()).id as string;
+    for (const p of ["/samples/new", `/stations/${st.id}/edit`, `/stations/${st.id}`, "/sync"]) {
       await page.goto(`${base}${p}`);
       await page.waitForLoadState("networkidle");
     }
@@ -70,9 +78,20 @@ describe("offline codes and conflicts on a phone", () => {
 
     // The station edited offline.
     await page.goto(`${base}/stations/${st.id}/edit`);
+    await page.waitForLoadState("load");
+    await page.waitForTimeout(1000); // let the form hydrate before typing
     await page.fill("#st-desc", "Gossan cap over sheared schist (edited offline)");
+    expect(await page.inputValue("#st-desc")).toBe("Gossan cap over sheared schist (edited offline)");
     await page.getByRole("button", { name: "Save changes" }).click();
     await expect.poll(() => page.locator("[data-testid=station-queued]").count(), { timeout: 30_000 }).toBe(1);
+
+    // A structural measurement edited offline (re-entered: dip 60 → 55).
+    await page.goto(`${base}/stations/${st.id}`);
+    const row = page.locator("[data-testid=structure-table] tr", { hasText: "E2E foliation" });
+    await row.getByRole("button", { name: "Edit" }).click();
+    await page.fill("#se-dip", "55");
+    await page.getByRole("button", { name: "Save measurement" }).click();
+    await expect.poll(() => page.textContent("body"), { timeout: 30_000 }).toMatch(/the edit is saved on this device/);
 
     // Meanwhile the lead changes the same station on the server (another session).
     const lead = await browser.newContext();
@@ -115,6 +134,9 @@ describe("offline codes and conflicts on a phone", () => {
       expect(row).toMatchObject({ name: "Ridge north (lead)", description: "Gossan cap over sheared schist (edited offline)", version: before.version + 2 });
       const n = await db.execute({ sql: "SELECT count(*) AS n FROM stations WHERE project_id = ? AND code = ?", args: [projectId, st.code] });
       expect(n.rows[0].n).toBe(1);
+      // The measurement edit went through without a conflict: dip 55, stored direction unchanged, version 2.
+      const m = (await db.execute({ sql: "SELECT dip_direction, dip, version FROM structures WHERE id = ?", args: [structureId] })).rows[0];
+      expect(m).toMatchObject({ dip_direction: 40, dip: 55, version: 2 });
     } finally {
       db.close();
     }
