@@ -4,7 +4,7 @@ import { useState } from "react";
 import { Button } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
+import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/offline-save";
 import type { MapStation } from "./types";
 
 /** New station at a position picked on the map; coordinates stay editable (WGS84, 6 decimals). */

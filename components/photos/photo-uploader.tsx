@@ -2,8 +2,7 @@
 
 import { useRef, useState } from "react";
 import { buttonClass } from "@/components/ui/button";
-import { outboxUser } from "@/lib/client/outbox";
-import { queuePhoto } from "@/lib/client/photo-queue";
+import { queuePhoto } from "@/lib/client/offline-save";
 import { cn } from "@/lib/utils";
 import { MAX_PHOTO_BYTES, type Photo } from "./types";
 
@@ -76,7 +75,7 @@ export function PhotoUploader({ uploadUrl, onUploaded }: { uploadUrl: string; on
           const o = e instanceof NetworkDrop ? ownerOfUrl(uploadUrl) : null;
           if (o) {
             // No connection: the photo waits on this device and is sent resumably by the sync (see the sync page).
-            await queuePhoto({ ...o, label: `Photo of ${o.owner.kind} (${item.file.name})`, file: item.file, userId: outboxUser() });
+            await queuePhoto({ ...o, label: `Photo of ${o.owner.kind} (${item.file.name})`, file: item.file });
             update(key, { state: "on-device" });
           } else update(key, { state: "error", message: (e as Error).message });
         }

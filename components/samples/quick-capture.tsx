@@ -8,9 +8,7 @@ import { useDeviceZone } from "@/components/stations/use-device-zone";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { reservedCodeForOfflineSample } from "@/lib/client/code-block";
-import { enqueue, isNetworkFailure, newClientId, outboxUser } from "@/lib/client/outbox";
-import { queuePhoto } from "@/lib/client/photo-queue";
+import { enqueue, isNetworkFailure, newClientId, queuePhoto, reservedCodeForOfflineSample } from "@/lib/client/offline-save";
 import { SAMPLE_TYPE_LABELS } from "@/lib/format";
 import type { SampleType } from "@/lib/vocabulary";
 import { cn } from "@/lib/utils";
@@ -111,14 +109,14 @@ export function QuickCapture({ projectId, stations, defaultZone }: { projectId: 
         form.append("files", photo, photo.name || "photo.jpg");
         const sent = await fetch(`/api/projects/${projectId}/samples/${saved.id}/photos`, { method: "POST", body: form }).catch(() => null);
         // The connection dropped after the sample: the photo waits on the device and is sent resumably.
-        if (!sent) await queuePhoto({ projectId, owner: { kind: "sample", id: saved.id }, label: `Photo of sample ${String(body.code ?? saved.id.slice(0, 8))}`, file: photo, userId: outboxUser() });
+        if (!sent) await queuePhoto({ projectId, owner: { kind: "sample", id: saved.id }, label: `Photo of sample ${String(body.code ?? saved.id.slice(0, 8))}`, file: photo });
       }
       router.push(`/projects/${projectId}/samples/${saved.id}`);
     } catch (e) {
       if (!(e instanceof ApiError) && isNetworkFailure(e)) {
         const label = reserved ? `code ${reserved.code}, provisional until synced` : tag.trim() ? `tag ${tag.trim().toUpperCase()}` : "code issued on sync";
         await enqueue({ projectId, kind: "sample", action: "create", recordId: clientId, opId: clientId, label: `New sample (${label})`, body, ...(reserved && { headers: reserved.headers }) });
-        if (photo) await queuePhoto({ projectId, owner: { kind: "sample", id: clientId }, label: `Photo of new sample (${label})`, file: photo, userId: outboxUser() });
+        if (photo) await queuePhoto({ projectId, owner: { kind: "sample", id: clientId }, label: `Photo of new sample (${label})`, file: photo });
         router.push(`/projects/${projectId}/sync`);
         return;
       }

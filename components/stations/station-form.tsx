@@ -7,7 +7,7 @@ import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
+import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/offline-save";
 import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo/zoned-time";
 import { stationCreateSchema, stationPatchSchema } from "@/lib/validation/station";
 import { ConflictPanel, type ConflictField } from "./conflict-panel";

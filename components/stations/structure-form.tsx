@@ -8,7 +8,7 @@ import { Button } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { ConflictPanel, type ConflictField } from "./conflict-panel";
-import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/outbox";
+import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/offline-save";
 import { normalizeAzimuth } from "@/lib/geo/angles";
 import { angleLineToPlane, dipDirectionFromStrike, formatAttitude, lineFromRake, poleToPlane } from "@/lib/geo/structure";
 import { LINEAR_FEATURES, PLANAR_FEATURES, STRUCTURE_QUALITIES, structureCreateSchema } from "@/lib/validation/structure";

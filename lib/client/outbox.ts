@@ -62,7 +62,7 @@ function outboxDb(): OutboxDb {
   return db;
 }
 
-export const newClientId = (): string => uuidv7();
+export { isNetworkFailure, newClientId } from "./offline-save";
 
 let currentUserId: string | null = null;
 
@@ -217,9 +217,4 @@ export async function keepMine(item: OutboxItem): Promise<void> {
 /** Conflict: drop my edit and keep theirs. */
 export async function discard(opId: string): Promise<void> {
   await outboxDb().items.delete(opId);
-}
-
-/** True when fetch failed without an answer (offline, DNS, dropped connection). */
-export function isNetworkFailure(e: unknown): boolean {
-  return e instanceof TypeError || (typeof navigator !== "undefined" && navigator.onLine === false);
 }
