@@ -8,6 +8,7 @@ import { MAX_AREA_TILES, MAX_AREA_ZOOM, fitsStorage, formatBytes, planArea, type
 import { BASEMAP_SOURCE_ID, basemapCovers } from "@/lib/map/tile-sources";
 import { MERCATOR_MAX_LAT, type LonLatBBox } from "@/lib/map/tiles";
 import type { BBox } from "./types";
+import { formatLocalDate } from "@/lib/dates";
 
 const clampBox = (b: BBox): LonLatBBox => ({
   west: Math.max(-180, b[0]),
@@ -90,7 +91,7 @@ export function OfflineAreaDialog({ projectId, map, drawn, onDraw, sources, area
     const ctl = new AbortController();
     abort.current = ctl;
     setProgress({ done: 0, total: plan.tiles, bytes: 0, failed: 0, empty: 0 });
-    const label = name.trim() || `Area ${new Date().toLocaleDateString("en-GB")} (z${minZoom}–${maxZoom})`;
+    const label = name.trim() || `Area ${formatLocalDate(new Date(), Intl.DateTimeFormat().resolvedOptions().timeZone)} (z${minZoom}–${maxZoom})`;
     try {
       const a = await downloadArea(projectId, label, req, sources, { signal: ctl.signal, onProgress: setProgress });
       const parts = [`Saved “${a.name}”: ${a.tiles.toLocaleString("en")} tiles, ${formatBytes(a.bytes)} in ${(a.durationMs / 1000).toFixed(1)} s.`];

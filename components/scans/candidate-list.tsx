@@ -5,6 +5,7 @@ import { Badge } from "@/components/ui/badge";
 import { Button } from "@/components/ui/button";
 import { cn } from "@/lib/utils";
 import type { PhaseRow, RunProfile } from "./types";
+import { formatLocalDate } from "@/lib/dates";
 
 export const OVERLAY_COLORS = ["#2563eb", "#c026d3", "#059669", "#d97706", "#dc2626", "#7c3aed", "#0891b2", "#4d7c0f"];
 
@@ -169,7 +170,7 @@ export function CandidateList({ phases, mixture, canReview, locked, busyId, over
               {p.decidedByName && p.status !== "candidate" && (
                 <p className="mt-1 text-xs text-muted">
                   {p.status === "accepted" ? "Accepted" : "Rejected"} by {p.decidedByName}
-                  {p.decidedAt ? ` on ${new Date(p.decidedAt).toLocaleDateString("en-GB")}` : ""}
+                  {p.decidedAt ? ` on ${formatLocalDate(p.decidedAt)}` : ""}
                   {p.note ? ` — ${p.note}` : ""}
                 </p>
               )}

@@ -5,6 +5,7 @@ import { Card } from "@/components/ui/card";
 import type { Actor } from "@/lib/dal/actor";
 import { getSamplePhases } from "@/lib/dal/scan-review";
 import { SCAN_STATUS_LABEL } from "./scan-status";
+import { formatLocalDate } from "@/lib/dates";
 
 /**
  * "Phases" section of a sample page (server component): confirmed phases (signed off) apart from unconfirmed ones
@@ -74,7 +75,7 @@ export async function SamplePhases({ actor, projectId, sampleId, canUpload }: { 
                 </Link>
                 <span className="text-xs text-muted">
                   {SCAN_STATUS_LABEL[s.status]}
-                  {s.signedOffAt ? ` by ${s.signedOffByName ?? "analyst"} on ${s.signedOffAt.toLocaleDateString("en-GB")}` : ""}
+                  {s.signedOffAt ? ` by ${s.signedOffByName ?? "analyst"} on ${formatLocalDate(s.signedOffAt)}` : ""}
                 </span>
               </li>
             ))}

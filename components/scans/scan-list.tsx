@@ -9,6 +9,7 @@ import { Skeleton } from "@/components/ui/card";
 import { fetchJson } from "@/lib/client/fetch-json";
 import { isPending, SCAN_STATUS_LABEL, ScanStatusBadge } from "./scan-status";
 import type { ScanListItem, ScanStatus } from "./types";
+import { formatLocalDate } from "@/lib/dates";
 
 interface Page {
   items: ScanListItem[];
@@ -119,7 +120,7 @@ export function ScanList({ projectId }: { projectId: string }) {
                   <td className="hidden px-3 py-2 tabular-nums text-muted md:table-cell">
                     {s.anode ?? `${s.wavelengthA} Å`} · {s.twoThetaStart}–{s.twoThetaEnd}°
                   </td>
-                  <td className="hidden px-3 py-2 text-muted md:table-cell">{new Date(s.createdAt).toLocaleDateString("en-GB")}</td>
+                  <td className="hidden px-3 py-2 text-muted md:table-cell">{formatLocalDate(s.createdAt)}</td>
                 </tr>
               ))}
             </tbody>

@@ -9,6 +9,7 @@ import { discard, keepMine, requeue, setOutboxUser, syncProject, watchOutbox, ty
 import { CodeBlockSummary } from "./code-block-summary";
 import { QueuedPhotos, useQueuedPhotos } from "./queued-photos";
 import { useOutbox } from "./use-outbox";
+import { formatDateTime } from "@/lib/dates";
 
 const FIELDS: ConflictField[] = [
   "code",
@@ -67,7 +68,7 @@ export function SyncPanel({ projectId, userId, canReserve = false }: { projectId
         </Button>
       </div>
       <p className="text-sm text-muted" data-testid="last-sync">
-        Last successful sync: {meta?.lastSyncAt ? new Date(meta.lastSyncAt).toLocaleString() : "not yet on this device"}
+        Last successful sync: {meta?.lastSyncAt ? formatDateTime(meta.lastSyncAt, Intl.DateTimeFormat().resolvedOptions().timeZone) : "not yet on this device"}
         {meta?.lastResult ? ` (${meta.lastResult})` : ""}
       </p>
       <QueuedPhotos items={photos} />
