@@ -10,7 +10,7 @@ const securityHeaders = [
 /** @type {import('next').NextConfig} */
 const nextConfig = {
   // exifr loads fs/zlib dynamically, pdfkit reads its font metrics and piscina starts its worker file from their own folders: bundling breaks them.
-  serverExternalPackages: ["exifr", "pdfkit", "piscina"],
+  serverExternalPackages: ["exifr", "file-type", "pdfkit", "piscina"],
   poweredByHeader: false,
   async headers() {
     return [

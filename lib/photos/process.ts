@@ -54,7 +54,7 @@ export async function processPhoto(bytes: Uint8Array, fileName: string, options:
   if (bytes.byteLength > maxBytes) {
     throw new PhotoError("too_large", `${fileName} is ${mb(bytes.byteLength)}; photos may be at most ${mb(maxBytes)}. Export a smaller JPEG and try again.`);
   }
-  const sniff = sniffImageType(bytes);
+  const sniff = await sniffImageType(bytes);
   if (!sniff.ok) {
     throw new PhotoError("unsupported_type", `${fileName} is ${sniff.label}. Upload photos as JPEG, PNG, WebP, TIFF or AVIF.${sniff.hint ? ` ${sniff.hint}` : ""}`);
   }

@@ -1,4 +1,6 @@
-/** Tells the real image type from the first bytes (magic numbers), whatever the file is named. Pure. */
+/** Tells the real image type from the first bytes (magic numbers), whatever the file is named. */
+
+import { fileTypeFromBuffer } from "file-type";
 
 export type PhotoFormat = "jpeg" | "png" | "webp" | "tiff" | "avif";
 
@@ -14,8 +16,20 @@ const INFO: Record<PhotoFormat, { mime: string; ext: string; label: string }> = 
   avif: { mime: "image/avif", ext: "avif", label: "AVIF" },
 };
 
-const ascii = (b: Uint8Array, from: number, to: number) => String.fromCharCode(...b.subarray(from, to));
-const startsWith = (b: Uint8Array, sig: number[], at = 0) => sig.every((v, i) => b[at + i] === v);
+const BY_MIME: Record<string, PhotoFormat> = { "image/jpeg": "jpeg", "image/png": "png", "image/webp": "webp", "image/tiff": "tiff", "image/avif": "avif" };
+
+/** What a refused file is, in words, with a hint where there is an easy way out. */
+const REFUSED: Record<string, { label: string; hint?: string }> = {
+  heic: { label: "a HEIC/HEIF image", hint: 'Export it as JPEG first (phones can be set to save photos as JPEG / "most compatible").' },
+  gif: { label: "a GIF", hint: "Upload photos as JPEG, PNG, WebP, TIFF or AVIF." },
+  pdf: { label: "a PDF document" },
+  zip: { label: "a ZIP archive or office document" },
+  docx: { label: "a ZIP archive or office document" },
+  xlsx: { label: "a ZIP archive or office document" },
+  pptx: { label: "a ZIP archive or office document" },
+  mp4: { label: "a video or ISO media file" },
+  mov: { label: "a video or ISO media file" },
+};
 
 /** True when the bytes look like text (UTF-8/ASCII without control characters other than tab/CR/LF). */
 function looksLikeText(b: Uint8Array): boolean {
@@ -28,25 +42,19 @@ function looksLikeText(b: Uint8Array): boolean {
   return true;
 }
 
-/** Recognises JPEG, PNG, WebP, TIFF and AVIF; names common non-photo contents so the message can say what it is. */
-export function sniffImageType(bytes: Uint8Array): SniffResult {
-  const b = bytes;
-  if (startsWith(b, [0xff, 0xd8, 0xff])) return { ok: true, format: "jpeg", ...INFO.jpeg };
-  if (startsWith(b, [0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a])) return { ok: true, format: "png", ...INFO.png };
-  if (b.length >= 12 && ascii(b, 0, 4) === "RIFF" && ascii(b, 8, 12) === "WEBP") return { ok: true, format: "webp", ...INFO.webp };
-  if (startsWith(b, [0x49, 0x49, 0x2a, 0x00]) || startsWith(b, [0x4d, 0x4d, 0x00, 0x2a])) return { ok: true, format: "tiff", ...INFO.tiff };
-  if (b.length >= 12 && ascii(b, 4, 8) === "ftyp") {
-    const brand = ascii(b, 8, 12);
-    if (brand === "avif" || brand === "avis") return { ok: true, format: "avif", ...INFO.avif };
-    if (["heic", "heix", "hevc", "hevx", "mif1", "msf1"].includes(brand)) {
-      return { ok: false, label: "a HEIC/HEIF image", hint: "Export it as JPEG first (phones can be set to save photos as JPEG / \"most compatible\")." };
-    }
-    return { ok: false, label: "a video or ISO media file" };
+/**
+ * Recognises JPEG, PNG, WebP, TIFF and AVIF by their magic numbers (the `file-type` package reads them); names common
+ * non-photo contents so the message can say what the file is.
+ */
+export async function sniffImageType(bytes: Uint8Array): Promise<SniffResult> {
+  const found = await fileTypeFromBuffer(bytes);
+  const format = found && BY_MIME[found.mime];
+  if (format) return { ok: true, format, ...INFO[format] };
+  if (found) {
+    const key = found.mime === "image/heic" || found.mime === "image/heif" || found.mime.startsWith("image/heic") || found.mime.startsWith("image/heif") ? "heic" : found.ext;
+    return { ok: false, ...(REFUSED[key] ?? { label: `a ${found.ext.toUpperCase()} file (${found.mime})` }) };
   }
-  if (startsWith(b, [0x47, 0x49, 0x46, 0x38])) return { ok: false, label: "a GIF", hint: "Upload photos as JPEG, PNG, WebP, TIFF or AVIF." };
-  if (ascii(b, 0, 5) === "%PDF-") return { ok: false, label: "a PDF document" };
-  if (startsWith(b, [0x50, 0x4b, 0x03, 0x04])) return { ok: false, label: "a ZIP archive or office document" };
-  if (looksLikeText(b)) return { ok: false, label: "text, not an image" };
+  if (looksLikeText(bytes)) return { ok: false, label: "text, not an image" };
   return { ok: false, label: "not an image we recognise" };
 }
 

@@ -84,19 +84,19 @@ describe("processPhoto", () => {
   });
 });
 
-describe("sniffImageType (magic numbers: JPEG FF D8 FF, PNG 89 50 4E 47 0D 0A 1A 0A, RIFF…WEBP, TIFF II*\\0/MM\\0*, ISO-BMFF ftyp brands — file-format specs, from memory)", () => {
+describe("sniffImageType (the file-type package's magic numbers: JPEG FF D8 FF, PNG 89 50 4E 47, RIFF…WEBP, TIFF II*\\0/MM\\0*, ISO-BMFF ftyp brands)", () => {
   test("recognises what sharp writes", async () => {
     const img = sharp({ create: { width: 4, height: 4, channels: 3, background: "#000" } });
-    expect(sniffImageType(await img.clone().jpeg().toBuffer())).toMatchObject({ ok: true, format: "jpeg" });
-    expect(sniffImageType(await img.clone().png().toBuffer())).toMatchObject({ ok: true, format: "png" });
-    expect(sniffImageType(await img.clone().webp().toBuffer())).toMatchObject({ ok: true, format: "webp" });
-    expect(sniffImageType(await img.clone().tiff().toBuffer())).toMatchObject({ ok: true, format: "tiff" });
-    expect(sniffImageType(await img.clone().avif().toBuffer())).toMatchObject({ ok: true, format: "avif" });
+    expect(await sniffImageType(await img.clone().jpeg().toBuffer())).toMatchObject({ ok: true, format: "jpeg" });
+    expect(await sniffImageType(await img.clone().png().toBuffer())).toMatchObject({ ok: true, format: "png" });
+    expect(await sniffImageType(await img.clone().webp().toBuffer())).toMatchObject({ ok: true, format: "webp" });
+    expect(await sniffImageType(await img.clone().tiff().toBuffer())).toMatchObject({ ok: true, format: "tiff" });
+    expect(await sniffImageType(await img.clone().avif().toBuffer())).toMatchObject({ ok: true, format: "avif" });
   });
-  test("names HEIC, PDF and GIF", () => {
+  test("names HEIC, PDF and GIF", async () => {
     const heic = Buffer.concat([Buffer.from([0, 0, 0, 24]), Buffer.from("ftypheic"), Buffer.alloc(12)]);
-    expect(sniffImageType(heic)).toMatchObject({ ok: false, label: expect.stringMatching(/HEIC/) });
-    expect(sniffImageType(Buffer.from("%PDF-1.7\n"))).toMatchObject({ ok: false, label: "a PDF document" });
-    expect(sniffImageType(Buffer.from("GIF89a"))).toMatchObject({ ok: false, label: "a GIF" });
+    expect(await sniffImageType(heic)).toMatchObject({ ok: false, label: expect.stringMatching(/HEIC/) });
+    expect(await sniffImageType(Buffer.from("%PDF-1.7\n"))).toMatchObject({ ok: false, label: "a PDF document" });
+    expect(await sniffImageType(Buffer.from("GIF89a"))).toMatchObject({ ok: false, label: "a GIF" });
   });
 });
