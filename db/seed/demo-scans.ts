@@ -155,6 +155,13 @@ export async function seedDemoScans(projectCode = "APR"): Promise<number> {
     await db.update(scans).set({ currentRunId: run.id, status: "processing" }).where(eq(scans.id, p.scanId));
   }
   await drainProcessingQueue();
+  // Processing ran just now; in the scenario each scan was processed minutes after its upload, before any sign-off.
+  for (const p of planned.filter((x) => x.plan.outcome !== "queued")) {
+    await db
+      .update(custodyEvents)
+      .set({ occurredAt: new Date(p.at.getTime() + 15 * 60_000).toISOString() })
+      .where(and(eq(custodyEvents.sampleId, p.sampleId), eq(custodyEvents.event, "processed")));
+  }
   for (const p of planned.filter((x) => x.plan.outcome === "queued")) {
     await db.insert(processingRuns).values({ id: p.runId, scanId: p.scanId, paramsJson: { requested: {} } as unknown as Record<string, unknown>, softwareVersion: PIPELINE_VERSION, status: "queued", createdBy: lab.id, createdAt: p.at });
     await db.update(scans).set({ currentRunId: p.runId }).where(eq(scans.id, p.scanId));
