@@ -56,3 +56,38 @@ export async function openDemoProject(page: Page): Promise<string> {
   await page.waitForURL(/\/projects\/[^/]+$/);
   return page.url().split("/projects/")[1];
 }
+
+/**
+ * A point on the map (#map) where a click reaches the map itself (a tile or the empty container), not a marker, a
+ * symbol or a control, and which is not under the phone's bottom navigation. Where the stations sit depends on the
+ * map's fitted extent, so a fixed fraction of the box can land on a marker.
+ */
+export async function emptyMapPoint(page: Page): Promise<{ x: number; y: number }> {
+  // Not while the map is still zooming to its fitted extent (Leaflet marks the map pane during the animation).
+  await page.waitForFunction(() => !document.querySelector("#map .leaflet-zoom-anim"), null, { timeout: 10_000 });
+  const spot = await page.evaluate(() => {
+    const m = document.querySelector("#map")!.getBoundingClientRect();
+    const bottom = Math.min(m.bottom, window.innerHeight - 120);
+    for (let fy = 0.35; fy <= 0.95; fy += 0.05) {
+      for (let fx = 0.25; fx <= 0.85; fx += 0.05) {
+        const x = m.left + m.width * fx;
+        const y = m.top + (bottom - m.top) * fy;
+        const el = document.elementFromPoint(x, y);
+        if (el && (el.classList.contains("leaflet-tile") || el.classList.contains("leaflet-container"))) return { x, y };
+      }
+    }
+    return null;
+  });
+  if (!spot) throw new Error("no empty point on the map to click");
+  return spot;
+}
+
+/** Clicks empty map points (see emptyMapPoint) until the element the click should open is visible, three tries. */
+export async function clickEmptyMapUntilVisible(page: Page, selector: string): Promise<void> {
+  for (let attempt = 0; attempt < 3; attempt++) {
+    const spot = await emptyMapPoint(page);
+    await page.mouse.click(spot.x, spot.y);
+    if (await page.locator(selector).waitFor({ state: "visible", timeout: 5_000 }).then(() => true, () => false)) return;
+  }
+  throw new Error(`clicking the map did not open ${selector}`);
+}

@@ -6,7 +6,7 @@
 import { mkdirSync } from "node:fs";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { baseUrl, blockExternalNetwork, launchBrowser, openDemoProject, signInAs } from "./helpers";
+import { baseUrl, blockExternalNetwork, clickEmptyMapUntilVisible, launchBrowser, openDemoProject, signInAs } from "./helpers";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -62,8 +62,7 @@ describe("offline capture on a phone", () => {
     await expect.poll(() => page.getByText("Loading stations and samples…").count(), { timeout: 20_000 }).toBe(0);
     await expect.poll(() => page.getByRole("button", { name: "Place station" }).count(), { timeout: 30_000 }).toBe(1);
     await page.getByRole("button", { name: "Place station" }).click();
-    const box = (await page.locator("#map").boundingBox())!;
-    await page.mouse.click(box.x + box.width * 0.35, box.y + Math.min(box.height * 0.6, 844 - 120 - box.y));
+    await clickEmptyMapUntilVisible(page, "#ns-name");
     await page.fill("#ns-name", "Offline outcrop E2E");
     await page.getByRole("button", { name: "Create station" }).click();
     await expect.poll(() => page.textContent("body")).toMatch(/saved on this device/);

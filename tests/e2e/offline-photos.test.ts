@@ -14,7 +14,7 @@ import type { Browser, Page } from "playwright-core";
 import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, inject, test } from "vitest";
 import { noise } from "../helpers/photo-fixtures";
-import { baseUrl, blockExternalNetwork, launchBrowser, openDemoProject, signInAs } from "./helpers";
+import { baseUrl, blockExternalNetwork, clickEmptyMapUntilVisible, launchBrowser, openDemoProject, signInAs } from "./helpers";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -66,8 +66,7 @@ describe("offline photos on a phone", () => {
     await page.goto(`${base}/map`);
     await expect.poll(() => page.getByRole("button", { name: "Place station" }).count(), { timeout: 30_000 }).toBe(1);
     await page.getByRole("button", { name: "Place station" }).click();
-    const box = (await page.locator("#map").boundingBox())!;
-    await page.mouse.click(box.x + box.width * 0.35, box.y + Math.min(box.height * 0.6, 844 - 120 - box.y));
+    await clickEmptyMapUntilVisible(page, "#ns-name");
     await page.fill("#ns-name", "Offline photo outcrop E2E");
     await page.getByRole("button", { name: "Create station" }).click();
     await expect.poll(() => page.textContent("body")).toMatch(/saved on this device/);
