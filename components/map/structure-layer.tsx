@@ -6,24 +6,11 @@ import L from "leaflet";
 import { useState } from "react";
 import { Marker, useMapEvents } from "react-leaflet";
 import { fetchJson } from "@/lib/client/fetch-json";
-import { formatAttitude, strikeFromDipDirection } from "@/lib/geo";
+import { formatAttitude, strikeFromDipDirection } from "@/lib/geo/structure";
+import type { MapStructure } from "@/lib/dal/structures";
 import { structureSymbol, structureSymbolSvg, type StructureAttitude } from "@/lib/map/structure-symbols";
 
-export interface MapStructure {
-  id: string;
-  stationId: string;
-  stationCode: string;
-  lat: number;
-  lon: number;
-  kind: "planar" | "linear";
-  feature: string;
-  dipDirection: number | null;
-  dip: number | null;
-  trend: number | null;
-  plunge: number | null;
-  overturned: boolean;
-  generation: string | null;
-}
+export type { MapStructure };
 
 /** Symbols are drawn from this zoom up; further out they would cover each other. */
 export const STRUCTURE_MIN_ZOOM = 11;

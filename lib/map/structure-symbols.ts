@@ -13,7 +13,8 @@
  * `a` (clockwise from north) points along (sin a, −cos a). Planes are stored as dip direction/dip; the strike is the
  * right-hand-rule strike (dip direction − 90°). Pure: no DOM, no Leaflet.
  */
-import { normalizeAzimuth, strikeFromDipDirection } from "@/lib/geo";
+import { normalizeAzimuth } from "@/lib/geo/angles";
+import { strikeFromDipDirection } from "@/lib/geo/structure";
 
 export type StructureAttitude =
   | { kind: "planar"; dipDirection: number; dip: number; overturned?: boolean }
