@@ -91,3 +91,10 @@ export async function clickEmptyMapUntilVisible(page: Page, selector: string): P
   }
   throw new Error(`clicking the map did not open ${selector}`);
 }
+
+/** Waits until the service worker controls the page (one reload when it installed after the page loaded). */
+export async function waitForServiceWorker(page: Page): Promise<void> {
+  await page.waitForFunction(async () => !!(await navigator.serviceWorker?.ready), null, { timeout: 60_000 });
+  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
+  await page.waitForFunction(() => !!navigator.serviceWorker.controller, null, { timeout: 30_000 });
+}

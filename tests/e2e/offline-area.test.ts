@@ -7,7 +7,7 @@
 import { mkdirSync } from "node:fs";
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { baseUrl, blockExternalNetwork, isNotBlank, launchBrowser, openDemoProject, signInAs } from "./helpers";
+import { baseUrl, blockExternalNetwork, isNotBlank, launchBrowser, openDemoProject, signInAs, waitForServiceWorker } from "./helpers";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -18,12 +18,6 @@ afterAll(async () => {
 });
 
 const SHOTS = process.env.E2E_SCREENSHOT_DIR || "test-results/offline-area";
-
-async function waitForServiceWorker(page: Page) {
-  await page.waitForFunction(async () => !!(await navigator.serviceWorker?.ready), null, { timeout: 60_000 });
-  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
-  await page.waitForFunction(() => !!navigator.serviceWorker.controller, null, { timeout: 30_000 });
-}
 
 /** The map's scale bar in metres (Leaflet's metric scale line: "500 m", "2 km"). */
 async function scaleMetres(page: Page): Promise<number> {

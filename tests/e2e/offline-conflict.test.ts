@@ -9,9 +9,9 @@
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
 import { createClient } from "@libsql/client";
-import type { Browser, Page } from "playwright-core";
+import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, inject, test } from "vitest";
-import { baseUrl, blockExternalNetwork, launchBrowser, openDemoProject, signInAs } from "./helpers";
+import { baseUrl, blockExternalNetwork, launchBrowser, openDemoProject, signInAs, waitForServiceWorker } from "./helpers";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -22,12 +22,6 @@ afterAll(async () => {
 });
 
 const SHOTS = process.env.E2E_SCREENSHOT_DIR || "test-results/offline-conflict";
-
-async function waitForServiceWorker(page: Page) {
-  await page.waitForFunction(async () => !!(await navigator.serviceWorker?.ready), null, { timeout: 60_000 });
-  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
-  await page.waitForFunction(() => !!navigator.serviceWorker.controller, null, { timeout: 30_000 });
-}
 
 describe("offline codes and conflicts on a phone", () => {
   test("a reserved code survives offline capture; an offline station edit meets the lead's change and is resolved side by side", async () => {

@@ -4,9 +4,9 @@
  * exactly once when the connection returns. Phone viewport 390×844 (a common phone size, "common practice").
  */
 import { mkdirSync } from "node:fs";
-import type { Browser, Page } from "playwright-core";
+import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, test } from "vitest";
-import { baseUrl, blockExternalNetwork, clickEmptyMapUntilVisible, launchBrowser, openDemoProject, signInAs } from "./helpers";
+import { baseUrl, blockExternalNetwork, clickEmptyMapUntilVisible, launchBrowser, openDemoProject, signInAs, waitForServiceWorker } from "./helpers";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -17,12 +17,6 @@ afterAll(async () => {
 });
 
 const SHOTS = process.env.E2E_SCREENSHOT_DIR || "test-results/offline-field";
-
-async function waitForServiceWorker(page: Page) {
-  await page.waitForFunction(async () => !!(await navigator.serviceWorker?.ready), null, { timeout: 60_000 });
-  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
-  await page.waitForFunction(() => !!navigator.serviceWorker.controller, null, { timeout: 30_000 });
-}
 
 describe("offline capture on a phone", () => {
   test("station and sample saved offline, reload offline, sync once online: exactly one record of each on the server", async () => {

@@ -10,11 +10,11 @@ import { createHash } from "node:crypto";
 import { mkdirSync } from "node:fs";
 import { join } from "node:path";
 import { createClient } from "@libsql/client";
-import type { Browser, Page } from "playwright-core";
+import type { Browser } from "playwright-core";
 import sharp from "sharp";
 import { afterAll, beforeAll, describe, expect, inject, test } from "vitest";
 import { noise } from "../helpers/photo-fixtures";
-import { baseUrl, blockExternalNetwork, clickEmptyMapUntilVisible, launchBrowser, openDemoProject, signInAs } from "./helpers";
+import { baseUrl, blockExternalNetwork, clickEmptyMapUntilVisible, launchBrowser, openDemoProject, signInAs, waitForServiceWorker } from "./helpers";
 
 let browser: Browser;
 beforeAll(async () => {
@@ -26,12 +26,6 @@ afterAll(async () => {
 
 const SHOTS = process.env.E2E_SCREENSHOT_DIR || "test-results/offline-photos";
 const sha = (b: Uint8Array) => createHash("sha256").update(b).digest("hex");
-
-async function waitForServiceWorker(page: Page) {
-  await page.waitForFunction(async () => !!(await navigator.serviceWorker?.ready), null, { timeout: 60_000 });
-  if (!(await page.evaluate(() => !!navigator.serviceWorker.controller))) await page.reload();
-  await page.waitForFunction(() => !!navigator.serviceWorker.controller, null, { timeout: 30_000 });
-}
 
 const jpeg = (w: number, h: number, seed: number) => sharp(noise(w, h, seed), { raw: { width: w, height: h, channels: 3 } }).jpeg({ quality: 95 }).toBuffer();
 
