@@ -23,6 +23,26 @@ const config = [
     rules: { "no-restricted-imports": ["error", { patterns: ["@/db", "@/db/*"] }] },
   },
   {
+    // Components ship to the browser: zod and the schemas load on demand (lib/client/lazy-resolver.ts), not with
+    // the page (about 31 kB gzip of first-load JS); choices and lifecycle rules come from zod-free modules.
+    files: ["components/**/*.{ts,tsx}"],
+    rules: {
+      "no-restricted-imports": [
+        "error",
+        {
+          patterns: [
+            { group: ["@/db", "@/db/*"] },
+            {
+              group: ["zod", "zod/*", "@/lib/validation/*", "@hookform/resolvers/*"],
+              allowTypeImports: true,
+              message: "Load schemas with lazyZodResolver (lib/client/lazy-resolver.ts); import choices from lib/vocabulary.ts or lib/sample-details.ts.",
+            },
+          ],
+        },
+      ],
+    },
+  },
+  {
     // TanStack Query keys come from the factories in lib/client/query-keys.ts, never ad-hoc arrays.
     files: ["components/**/*.{ts,tsx}", "app/**/*.{ts,tsx}"],
     rules: {

@@ -53,12 +53,24 @@ export const STRUCTURE_FEATURES = [
   "other",
 ] as const;
 
+/** The features a plane or a line may record (the form offers one list or the other). */
+export const PLANAR_FEATURES = ["bedding", "foliation", "cleavage", "joint", "fault", "vein", "contact", "dyke", "other"] as const;
+export const LINEAR_FEATURES = ["lineation", "fold_hinge", "slickenline", "other"] as const;
+export const STRUCTURE_QUALITIES = ["good", "fair", "poor"] as const;
+
 export const SUBMISSION_STATUSES = ["draft", "sent", "received", "in_progress", "reported", "closed"] as const;
 
 export const PRIORITIES = ["routine", "high", "urgent"] as const;
 
+/** Analyses offered on the submission form; free text is accepted too. */
+export const REQUESTED_ANALYSES = ["XRD bulk", "XRD clay fraction", "XRD oriented clay mount", "XRD glycolated clay mount", "XRD heated clay mount"] as const;
+
+/** What the lab found for each sample of a submission at intake. */
+export const INTAKE_CONDITIONS = ["received", "missing", "damaged", "extra"] as const;
+export type IntakeCondition = (typeof INTAKE_CONDITIONS)[number];
+
 /**
- * Custody and review events of a physical sample. The sample's status follows them (lib/validation/custody.ts
+ * Custody and review events of a physical sample. The sample's status follows them (lib/custody.ts
  * CUSTODY_EVENT_STATUS); nothing else writes it. "received_directly" is an in-house lab taking a sample without a
  * submission (who and why are recorded); "processed", "confirmed", "reopened" and "reported" are review events
  * written by processing, sign-off, reopening a sign-off and the submission report.

@@ -2,8 +2,8 @@ import { Card } from "@/components/ui/card";
 import { CUSTODY_EVENT_LABELS, INTAKE_LABELS, formatInstant } from "@/components/submissions/labels";
 import { listSampleCustody } from "@/lib/dal/custody";
 import { currentActor } from "@/lib/dal/session";
-import type { CustodyEvent } from "@/lib/validation/custody";
-import type { IntakeCondition } from "@/lib/validation/submission";
+import type { CustodyEvent } from "@/lib/custody";
+import type { IntakeCondition } from "@/lib/vocabulary";
 import Link from "next/link";
 import { SampleCustodyActions } from "./sample-custody-actions";
 

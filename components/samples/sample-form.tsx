@@ -1,6 +1,5 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
 import Link from "next/link";
 import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
@@ -12,11 +11,12 @@ import { useDeviceZone } from "@/components/stations/use-device-zone";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { lazyZodResolver } from "@/lib/client/lazy-resolver";
 import { enqueue, isNetworkFailure, newClientId, reservedCodeForOfflineSample } from "@/lib/client/offline-save";
 import { SAMPLE_TYPE_LABELS } from "@/lib/format";
 import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo/zoned-time";
-import { emptySampleDetails, type SampleDetails } from "@/lib/validation/sample-details";
-import { sampleCreateSchema, samplePatchSchema } from "@/lib/validation/sample";
+import { emptySampleDetails } from "@/lib/sample-details";
+import type { SampleDetails } from "@/lib/validation/sample-details";
 import { SAMPLE_TYPES, type SampleType } from "@/lib/vocabulary";
 import { FieldTermLists } from "./field-terms";
 import { SampleTypeDetails } from "./sample-type-details";
@@ -165,11 +165,14 @@ export function SampleForm({
 }) {
   const router = useRouter();
   const creating = !sample;
-  const schema = creating ? sampleCreateSchema : samplePatchSchema;
-  const resolver = useMemo<Resolver<SampleFormValues>>(() => {
-    const inner = zodResolver(schema as never) as unknown as Resolver<SampleFormValues>;
-    return (values, ctx, opts) => inner(toBody(values, creating) as unknown as SampleFormValues, ctx, opts);
-  }, [schema, creating]);
+  const resolver = useMemo<Resolver<SampleFormValues>>(
+    () =>
+      lazyZodResolver(
+        () => import("@/lib/validation/sample").then((m) => (creating ? m.sampleCreateSchema : m.samplePatchSchema)),
+        (values) => toBody(values, creating),
+      ),
+    [creating],
+  );
   const browserZone = useDeviceZone();
   const initial = toForm(sample, defaults);
   const { register, handleSubmit, setValue, control, setError, getValues, reset, formState } = useForm<SampleFormValues>({ resolver, defaultValues: initial });

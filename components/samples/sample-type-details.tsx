@@ -3,7 +3,7 @@
 import type { FieldErrors, UseFormRegister } from "react-hook-form";
 import { Field, inputClass } from "@/components/ui/field";
 import type { SampleType } from "@/lib/vocabulary";
-import { CORE_PORTIONS, CORE_PORTION_LABELS, CORE_SIZES, FLOW_STATES, FLOW_STATE_LABELS, OTHER_SUBTYPES, OTHER_SUBTYPE_LABELS, SOIL_HORIZONS } from "@/lib/validation/sample-details";
+import { CORE_PORTIONS, CORE_PORTION_LABELS, CORE_SIZES, FLOW_STATES, FLOW_STATE_LABELS, OTHER_SUBTYPES, OTHER_SUBTYPE_LABELS, SOIL_HORIZONS } from "@/lib/sample-details";
 import { asNumber } from "@/components/stations/server-errors";
 import type { SampleFormValues } from "./sample-form";
 

@@ -1,5 +1,5 @@
 import type { SampleDetails } from "@/lib/validation/sample-details";
-import { CORE_PORTION_LABELS, FLOW_STATE_LABELS, OTHER_SUBTYPE_LABELS } from "@/lib/validation/sample-details";
+import { CORE_PORTION_LABELS, FLOW_STATE_LABELS, OTHER_SUBTYPE_LABELS } from "@/lib/sample-details";
 
 const join = (parts: (string | null | undefined | false)[]) => parts.filter(Boolean).join(" · ") || null;
 

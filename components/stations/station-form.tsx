@@ -1,15 +1,14 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useRouter } from "next/navigation";
 import { useMemo, useState } from "react";
 import { useForm, useWatch, type Resolver } from "react-hook-form";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { lazyZodResolver } from "@/lib/client/lazy-resolver";
 import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/offline-save";
 import { utcToZonedLocal, zonedLocalToUtc } from "@/lib/geo/zoned-time";
-import { stationCreateSchema, stationPatchSchema } from "@/lib/validation/station";
 import { ConflictPanel, type ConflictField } from "./conflict-panel";
 import { LocationFields, type LocationValue } from "./location-fields";
 import { applyServerErrors } from "./server-errors";
@@ -88,11 +87,14 @@ export function StationForm({ projectId, station, nextCode }: { projectId: strin
   const router = useRouter();
   const editing = !!station;
   const zone = useDeviceZone();
-  const schema = editing ? stationPatchSchema : stationCreateSchema;
-  const resolver = useMemo<Resolver<StationFormValues>>(() => {
-    const inner = zodResolver(schema as never) as unknown as Resolver<StationFormValues>;
-    return (values, ctx, opts) => inner(toBody(values, editing) as unknown as StationFormValues, ctx, opts);
-  }, [schema, editing]);
+  const resolver = useMemo<Resolver<StationFormValues>>(
+    () =>
+      lazyZodResolver(
+        () => import("@/lib/validation/station").then((m) => (editing ? m.stationPatchSchema : m.stationCreateSchema)),
+        (values) => toBody(values, editing),
+      ),
+    [editing],
+  );
   const form = useForm<StationFormValues>({ resolver, defaultValues: toForm(station) });
   const { register, handleSubmit, setValue, control, setError, getValues, reset, formState } = form;
   const [general, setGeneral] = useState<string[]>([]);

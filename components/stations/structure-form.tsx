@@ -1,17 +1,17 @@
 "use client";
 
-import { zodResolver } from "@hookform/resolvers/zod";
 import { useRouter } from "next/navigation";
 import { useState } from "react";
-import { useForm, useWatch, type Resolver } from "react-hook-form";
+import { useForm, useWatch } from "react-hook-form";
 import { Button } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
+import { lazyZodResolver } from "@/lib/client/lazy-resolver";
 import { ConflictPanel, type ConflictField } from "./conflict-panel";
 import { enqueue, isNetworkFailure, newClientId } from "@/lib/client/offline-save";
 import { normalizeAzimuth } from "@/lib/geo/angles";
 import { angleLineToPlane, dipDirectionFromStrike, formatAttitude, lineFromRake, poleToPlane } from "@/lib/geo/structure";
-import { LINEAR_FEATURES, PLANAR_FEATURES, STRUCTURE_QUALITIES, structureCreateSchema } from "@/lib/validation/structure";
+import { LINEAR_FEATURES, PLANAR_FEATURES, STRUCTURE_QUALITIES } from "@/lib/vocabulary";
 import { asNumber, applyServerErrors } from "./server-errors";
 import { FEATURE_LABELS } from "./structure-labels";
 
@@ -121,6 +121,9 @@ const CONFLICT_FIELDS: ConflictField[] = [
   { key: "note", label: "Note" },
 ];
 
+/** The server's schema, loaded on the first check (not with the page). */
+const resolver = lazyZodResolver<Values>(() => import("@/lib/validation/structure").then((m) => m.structureCreateSchema));
+
 /**
  * Adds a structural measurement to a station (same zod schema as the server), or re-enters one (`edit`): an edit
  * carries the version it was made against; without a connection it waits in the outbox; a newer version on the
@@ -134,7 +137,7 @@ export function StructureForm({ projectId, stationId, planes, edit, onDone }: { 
   const [version, setVersion] = useState(edit?.version ?? 1);
   const [conflict, setConflict] = useState<EditableStructure | null>(null);
   const { register, handleSubmit, control, setError, reset, formState, getValues, setValue } = useForm<Values>({
-    resolver: zodResolver(structureCreateSchema as never) as unknown as Resolver<Values>,
+    resolver,
     defaultValues: edit ? editValues(edit) : { convention: "rhr", feature: "bedding", azimuthRef: "true" },
     shouldUnregister: true,
   });

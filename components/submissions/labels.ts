@@ -1,7 +1,6 @@
 import { formatDateTime } from "@/lib/dates";
-import type { IntakeCondition } from "@/lib/validation/submission";
-import type { CustodyEvent } from "@/lib/validation/custody";
-import { PRIORITIES, SUBMISSION_STATUSES } from "@/lib/vocabulary";
+import type { CustodyEvent } from "@/lib/custody";
+import { PRIORITIES, SUBMISSION_STATUSES, type IntakeCondition } from "@/lib/vocabulary";
 
 export const SUBMISSION_STATUS_LABELS: Record<(typeof SUBMISSION_STATUSES)[number], string> = {
   draft: "Draft",

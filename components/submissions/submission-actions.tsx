@@ -7,9 +7,8 @@ import { Card } from "@/components/ui/card";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { SAMPLE_STATUS_LABELS } from "@/lib/format";
-import { LAB_STEP_EVENTS, STATUS_POLICIES, type CustodyEvent } from "@/lib/validation/custody";
-import { INTAKE_CONDITIONS, type IntakeCondition } from "@/lib/validation/submission";
-import type { SampleStatus } from "@/lib/vocabulary";
+import { LAB_STEP_EVENTS, STATUS_POLICIES, type CustodyEvent } from "@/lib/custody";
+import { INTAKE_CONDITIONS, type IntakeCondition, type SampleStatus } from "@/lib/vocabulary";
 import { CUSTODY_EVENT_LABELS, INTAKE_LABELS } from "./labels";
 
 interface ActionSample {

@@ -11,8 +11,7 @@ import { Card } from "@/components/ui/card";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
 import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS } from "@/lib/format";
-import { REQUESTED_ANALYSES } from "@/lib/validation/submission";
-import { PRIORITIES, type SampleStatus, type SampleType } from "@/lib/vocabulary";
+import { PRIORITIES, REQUESTED_ANALYSES, type SampleStatus, type SampleType } from "@/lib/vocabulary";
 import { PRIORITY_LABELS } from "./labels";
 
 export interface PickSample {

@@ -15,7 +15,7 @@ import { findLibraryPhase, findReferencePattern } from "@/lib/science/minerals";
 import { writeXy } from "@/lib/science/scan";
 import { synthesizeScan, type SyntheticPhase } from "@/lib/science/synthetic";
 import { getStorage, sha256Hex } from "@/lib/storage";
-import { STATUS_RANK } from "@/lib/validation/custody";
+import { STATUS_RANK } from "@/lib/custody";
 
 type Outcome = "signed_off" | "review" | "queued";
 

@@ -2,8 +2,7 @@
 
 import Dexie, { liveQuery, type Table } from "dexie";
 import { uuidv7 } from "uuidv7";
-import { nextUnusedCode, needsTopUp, type DeviceBlock } from "@/lib/outbox/code-block-math";
-import { CODE_BLOCK_DEFAULT_SIZE, DEVICE_HEADER } from "@/lib/validation/code-block";
+import { CODE_BLOCK_DEFAULT_SIZE, DEVICE_HEADER, nextUnusedCode, needsTopUp, type DeviceBlock } from "@/lib/outbox/code-block-math";
 
 /**
  * Sample codes reserved for this device (lib/dal/code-blocks.ts on the server): while online the device reserves a

@@ -1,7 +1,7 @@
 "use client";
 
 import Dexie, { liveQuery, type Table } from "dexie";
-import * as tus from "tus-js-client";
+import type { DetailedError } from "tus-js-client";
 import { uuidv7 } from "uuidv7";
 
 /**
@@ -89,7 +89,7 @@ export async function discardPhoto(clientPhotoId: string): Promise<void> {
 }
 
 function messageOf(err: unknown): { message: string; status: number } {
-  const e = err as tus.DetailedError;
+  const e = err as DetailedError;
   const status = e?.originalResponse?.getStatus?.() ?? 0;
   let message = "No connection to the server.";
   if (status) {
@@ -103,7 +103,14 @@ function messageOf(err: unknown): { message: string; status: number } {
 }
 
 /** Sends one photo, resuming its session when it has one; resolves with what became of it. */
-export function sendPhoto(item: QueuedPhoto): Promise<"done" | "queued" | "failed"> {
+export async function sendPhoto(item: QueuedPhoto): Promise<"done" | "queued" | "failed"> {
+  // tus-js-client (about 16 kB gzip) loads with the first photo sent, not with every page that shows the queue.
+  let tus: typeof import("tus-js-client");
+  try {
+    tus = await import("tus-js-client");
+  } catch {
+    return "queued"; // the chunk could not load (no connection, no service worker yet): try again next round
+  }
   const store = pdb();
   return new Promise((resolve) => {
     void store.photos.update(item.clientPhotoId, { state: "sending" });

@@ -2,7 +2,7 @@
  * The register's CSV columns, in order: the export writes exactly these headers and the import
  * recognises them (and common alternatives), so an exported file imports back unchanged. Pure.
  */
-import { LOCATION_SOURCES, SAMPLE_STATUSES, SAMPLE_TYPES } from "@/db/schema/field";
+import { LOCATION_SOURCES, SAMPLE_STATUSES, SAMPLE_TYPES } from "@/lib/vocabulary";
 import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS } from "@/lib/format";
 
 /** How a cell is read on import. */

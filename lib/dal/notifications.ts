@@ -4,7 +4,7 @@ import { getDb } from "@/db";
 import { projects, samples, submissionSamples, submissions, user } from "@/db/schema";
 import { appBaseUrl, sendMail, signOffMail, submissionReportedMail } from "@/lib/mail";
 import { writeSampleEvent } from "@/lib/jobs/sample-status";
-import { STATUS_RANK } from "@/lib/validation/custody";
+import { STATUS_RANK } from "@/lib/custody";
 import { audit } from "./audit";
 import { projectLeadEmails } from "./submissions";
 

@@ -8,7 +8,7 @@ import { DEFAULT_MAX_BYTES, parseScan, ScanParseError } from "@/lib/science/scan
 import { medianStep } from "@/lib/science/scan/step";
 import type { Scan } from "@/lib/science/types";
 import { getStorage, StorageError } from "@/lib/storage";
-import { STATUS_RANK } from "@/lib/validation/custody";
+import { STATUS_RANK } from "@/lib/custody";
 import {
   matchFilesToSamples,
   processParamsSchema,

@@ -9,10 +9,9 @@ import {
   submissionListQuerySchema,
   submissionReceiveSchema,
   submissionSendSchema,
-  type IntakeCondition,
   type SubmissionReceiveInput,
 } from "@/lib/validation/submission";
-import type { SampleStatus } from "@/lib/vocabulary";
+import type { IntakeCondition, SampleStatus } from "@/lib/vocabulary";
 import { authorize, type Actor, type Recorder } from "./actor";
 import { audit } from "./audit";
 import { appendCustodyEvent, assertNotSender, assertStatusPlans } from "./custody";

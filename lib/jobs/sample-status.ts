@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import type { Db } from "@/db";
 import { auditLog, custodyEvents, samples, user } from "@/db/schema";
-import { planStatusChange, STATUS_RANK, type CustodyEvent, type StatusPolicy } from "@/lib/validation/custody";
+import { planStatusChange, STATUS_RANK, type CustodyEvent, type StatusPolicy } from "@/lib/custody";
 import type { SampleStatus } from "@/lib/vocabulary";
 
 type Tx = Parameters<Parameters<Db["transaction"]>[0]>[0];

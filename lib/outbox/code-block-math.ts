@@ -2,6 +2,17 @@
  * Bookkeeping of a device's reserved sample codes, pure (no browser or framework imports): which code comes next,
  * how many are left, and when to ask the server for another block.
  */
+
+/** Header naming the device a request comes from (the id the device made for itself, kept on it). */
+export const DEVICE_HEADER = "lithodex-device";
+
+/** Codes in one block: enough for a field day without signal, few enough not to leave long gaps (common practice). */
+export const CODE_BLOCK_DEFAULT_SIZE = 20;
+export const CODE_BLOCK_MIN_SIZE = 5;
+export const CODE_BLOCK_MAX_SIZE = 100;
+/** Unused reserved codes one device may hold in a project; another block is refused past this. */
+export const CODE_BLOCK_MAX_UNUSED = 200;
+
 export interface DeviceBlock {
   id: string;
   firstCode: string;

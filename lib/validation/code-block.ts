@@ -1,14 +1,5 @@
 import { z } from "zod";
-
-/** Header naming the device a request comes from (the id the device made for itself, kept on it). */
-export const DEVICE_HEADER = "lithodex-device";
-
-/** Codes in one block: enough for a field day without signal, few enough not to leave long gaps (common practice). */
-export const CODE_BLOCK_DEFAULT_SIZE = 20;
-export const CODE_BLOCK_MIN_SIZE = 5;
-export const CODE_BLOCK_MAX_SIZE = 100;
-/** Unused reserved codes one device may hold in a project; another block is refused past this. */
-export const CODE_BLOCK_MAX_UNUSED = 200;
+import { CODE_BLOCK_DEFAULT_SIZE, CODE_BLOCK_MAX_SIZE, CODE_BLOCK_MIN_SIZE } from "@/lib/outbox/code-block-math";
 
 /** A device id: 8–100 printable characters without spaces (a UUID fits). */
 export const deviceId = z

@@ -1,9 +1,6 @@
 import { z } from "zod";
+import { LINEAR_FEATURES, PLANAR_FEATURES, STRUCTURE_QUALITIES } from "@/lib/vocabulary";
 import { clientId, optionalText } from "./common";
-
-export const PLANAR_FEATURES = ["bedding", "foliation", "cleavage", "joint", "fault", "vein", "contact", "dyke", "other"] as const;
-export const LINEAR_FEATURES = ["lineation", "fold_hinge", "slickenline", "other"] as const;
-export const STRUCTURE_QUALITIES = ["good", "fair", "poor"] as const;
 
 const azimuth = (name: string) =>
   z.number({ error: `${name} must be a number (degrees).` }).min(0, `${name} must be between 0 and 360°.`).max(360, `${name} must be between 0 and 360°.`);

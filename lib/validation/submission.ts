@@ -1,13 +1,7 @@
 import { z } from "zod";
-import { PRIORITIES, SUBMISSION_STATUSES } from "@/lib/vocabulary";
+import { INTAKE_CONDITIONS, PRIORITIES, SUBMISSION_STATUSES } from "@/lib/vocabulary";
 import { optionalText } from "./common";
 import { pastInstant } from "./custody";
-
-/** Analyses offered on the form; free text is accepted too. */
-export const REQUESTED_ANALYSES = ["XRD bulk", "XRD clay fraction", "XRD oriented clay mount", "XRD glycolated clay mount", "XRD heated clay mount"] as const;
-
-export const INTAKE_CONDITIONS = ["received", "missing", "damaged", "extra"] as const;
-export type IntakeCondition = (typeof INTAKE_CONDITIONS)[number];
 
 const email = z.string().trim().toLowerCase().pipe(z.email("Not an e-mail address."));
 

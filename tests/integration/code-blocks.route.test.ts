@@ -12,7 +12,7 @@ import { POST as importRoute } from "@/app/api/projects/[projectId]/samples/impo
 import { POST as createSampleRoute } from "@/app/api/projects/[projectId]/samples/route";
 import { getDb } from "@/db";
 import { projects, reservedSampleCodes, samples } from "@/db/schema";
-import { DEVICE_HEADER } from "@/lib/validation/code-block";
+import { DEVICE_HEADER } from "@/lib/outbox/code-block-math";
 import { call, makeWorld, type World } from "../helpers/app";
 
 let w: World;

@@ -14,7 +14,7 @@ import { getDb } from "@/db";
 import { seedReferenceLibrary } from "@/db/seed/reference-library";
 import { custodyEvents, projects, samples, scans, submissions } from "@/db/schema";
 import { drainProcessingQueue } from "@/lib/jobs";
-import { statusFromEvents } from "@/lib/validation/custody";
+import { statusFromEvents } from "@/lib/custody";
 import { quartzCalciteXy } from "../fixtures/lab/handbook-scans";
 import { call, makeWorld, type World } from "../helpers/app";
 import { useFakeSmtp } from "../helpers/mail";

@@ -1,5 +1,6 @@
 import { describe, expect, test } from "vitest";
-import { CUSTODY_EVENT_STATUS, STATUS_RANK, custodyStepSchema, planStatusChange, statusFromEvents } from "@/lib/validation/custody";
+import { CUSTODY_EVENT_STATUS, STATUS_RANK, planStatusChange, statusFromEvents } from "@/lib/custody";
+import { custodyStepSchema } from "@/lib/validation/custody";
 import { SAMPLE_STATUSES, type SampleStatus } from "@/lib/vocabulary";
 
 // The order is the usual sample lifecycle (common practice): planned → collected → dispatched → received →

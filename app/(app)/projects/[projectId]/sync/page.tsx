@@ -1,5 +1,5 @@
 import type { Metadata } from "next";
-import { SyncPanel } from "@/components/sync/sync-panel";
+import { SyncPanelLoader } from "@/components/sync/sync-panel-loader";
 import { Card } from "@/components/ui/card";
 import { roleAllows } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
@@ -19,7 +19,7 @@ export default async function SyncPage({ params }: { params: Promise<{ projectId
         changed meanwhile is shown side by side for you to choose; nothing is overwritten silently.
       </p>
       <Card>
-        <SyncPanel projectId={projectId} userId={actor.userId} canReserve={roleAllows(project.role, "sample.write") && !project.archivedAt} />
+        <SyncPanelLoader projectId={projectId} userId={actor.userId} canReserve={roleAllows(project.role, "sample.write") && !project.archivedAt} />
       </Card>
     </div>
   );

@@ -1,6 +1,6 @@
 import { created, parseJson, parseQuery, withActor } from "@/lib/api/handler";
 import { createSample, listSamples } from "@/lib/dal/samples";
-import { DEVICE_HEADER } from "@/lib/validation/code-block";
+import { DEVICE_HEADER } from "@/lib/outbox/code-block-math";
 import { sampleListQuerySchema } from "@/lib/validation/sample";
 
 // GET /api/projects/:projectId/samples — one page of the register (any member)

@@ -13,8 +13,8 @@ import { recordTitle } from "@/lib/dal/record-titles";
 import { currentActor, orNotFound } from "@/lib/dal/session";
 import { getSubmissionOrThrow, type SubmissionDetail } from "@/lib/dal/submissions";
 import { SAMPLE_STATUS_LABELS, SAMPLE_TYPE_LABELS } from "@/lib/format";
-import type { CustodyEvent } from "@/lib/validation/custody";
-import type { IntakeCondition } from "@/lib/validation/submission";
+import type { CustodyEvent } from "@/lib/custody";
+import type { IntakeCondition } from "@/lib/vocabulary";
 
 /** The record in the title (e.g. "Sample APR-000123 · Lithodex"); a plain title when it is not visible. */
 export async function generateMetadata({ params }: { params: Promise<{ projectId: string; submissionId: string }> }): Promise<Metadata> {
