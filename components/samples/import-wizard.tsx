@@ -226,7 +226,7 @@ export function ImportWizard({ projectId }: { projectId: string }) {
         <>
           <Step n={2} title="Match columns to register fields" active>
             <p className="mb-2 text-sm text-muted">
-              {file?.name}: {preview.rowCount} rows, {file ? CSV_ENCODING_LABELS[file.encoding] : ""}, separator “{preview.delimiter}”, decimal {preview.decimalComma ? "comma" : "point"}.
+              {file?.name}: {preview.rowCount} {preview.rowCount === 1 ? "row" : "rows"}, {file ? CSV_ENCODING_LABELS[file.encoding] : ""}, separator “{preview.delimiter}”, decimal {preview.decimalComma ? "comma" : "point"}.
             </p>
             <div className="grid gap-2 sm:grid-cols-2 lg:grid-cols-3">
               {preview.headers.map((h, i) => (
@@ -271,36 +271,40 @@ export function ImportWizard({ projectId }: { projectId: string }) {
                 {preview.errorCount > preview.errors.length && <p className="mt-1 text-xs text-muted">Showing the first {preview.errors.length}.</p>}
               </>
             ) : (
-              <p className="text-sm text-ok">All {preview.validRowCount} rows are valid.</p>
+              <p className="text-sm text-ok">{preview.validRowCount === 1 ? "The row is valid." : `All ${preview.validRowCount} rows are valid.`}</p>
             )}
-            <div className="mt-3 overflow-x-auto rounded border border-line">
-              <table className="w-full min-w-[640px] text-sm">
-                <caption className="px-2 py-1 text-left text-xs text-muted">First {preview.rows.length} valid rows as they will be stored</caption>
-                <thead className="bg-stone text-left text-xs uppercase text-muted">
-                  <tr>
-                    {["Line", "Code", "Type", "Station", "Lat", "Lon", "Collected", "Lithology"].map((h) => (
-                      <th key={h} className="px-2 py-1 font-medium">
-                        {h}
-                      </th>
-                    ))}
-                  </tr>
-                </thead>
-                <tbody>
-                  {preview.rows.map((r) => (
-                    <tr key={r.line} className="border-t border-line">
-                      <td className="px-2 py-1 text-muted">{r.line}</td>
-                      <td className="px-2 py-1 font-mono">{r.sample.code ?? <span className="text-muted">next code</span>}</td>
-                      <td className="px-2 py-1">{SAMPLE_TYPE_LABELS[r.sample.sampleType]}</td>
-                      <td className="px-2 py-1">{r.stationCode ?? "—"}</td>
-                      <td className="px-2 py-1 tabular-nums">{r.sample.lat?.toFixed(6) ?? "—"}</td>
-                      <td className="px-2 py-1 tabular-nums">{r.sample.lon?.toFixed(6) ?? "—"}</td>
-                      <td className="px-2 py-1">{formatDate(r.sample.collectedAt)}</td>
-                      <td className="px-2 py-1">{r.sample.lithology ?? "—"}</td>
+            {preview.rows.length > 0 && (
+              <div className="mt-3 overflow-x-auto rounded border border-line">
+                <table className="w-full min-w-[640px] text-sm">
+                  <caption className="px-2 py-1 text-left text-xs text-muted">
+                    {preview.rows.length === 1 ? "The valid row as it will be stored" : `First ${preview.rows.length} valid rows as they will be stored`}
+                  </caption>
+                  <thead className="bg-stone text-left text-xs uppercase text-muted">
+                    <tr>
+                      {["Line", "Code", "Type", "Station", "Lat", "Lon", "Collected", "Lithology"].map((h) => (
+                        <th key={h} className="px-2 py-1 font-medium">
+                          {h}
+                        </th>
+                      ))}
                     </tr>
-                  ))}
-                </tbody>
-              </table>
-            </div>
+                  </thead>
+                  <tbody>
+                    {preview.rows.map((r) => (
+                      <tr key={r.line} className="border-t border-line">
+                        <td className="px-2 py-1 text-muted">{r.line}</td>
+                        <td className="px-2 py-1 font-mono">{r.sample.code ?? <span className="text-muted">next code</span>}</td>
+                        <td className="px-2 py-1">{SAMPLE_TYPE_LABELS[r.sample.sampleType]}</td>
+                        <td className="px-2 py-1">{r.stationCode ?? "—"}</td>
+                        <td className="px-2 py-1 tabular-nums">{r.sample.lat?.toFixed(6) ?? "—"}</td>
+                        <td className="px-2 py-1 tabular-nums">{r.sample.lon?.toFixed(6) ?? "—"}</td>
+                        <td className="px-2 py-1">{formatDate(r.sample.collectedAt)}</td>
+                        <td className="px-2 py-1">{r.sample.lithology ?? "—"}</td>
+                      </tr>
+                    ))}
+                  </tbody>
+                </table>
+              </div>
+            )}
           </Step>
 
           <Step n={4} title="Import" active={canCommit}>
