@@ -20,6 +20,8 @@ import { GET as listShareLinks, POST as createShareLink } from "@/app/api/projec
 import { GET as auditLogRoute } from "@/app/api/projects/[projectId]/audit/route";
 import { GET as signOffsRoute } from "@/app/api/projects/[projectId]/scans/[scanId]/sign-offs/route";
 import { GET as auditExportRoute } from "@/app/api/projects/[projectId]/audit/export/route";
+import { GET as listCodeBlocks, POST as reserveCodeBlock } from "@/app/api/projects/[projectId]/sample-code-blocks/route";
+import { POST as openPhotoUpload } from "@/app/api/projects/[projectId]/photo-uploads/route";
 import { eq } from "drizzle-orm";
 import { getDb } from "@/db";
 import { seedReferenceLibrary } from "@/db/seed/reference-library";
@@ -42,6 +44,9 @@ interface RouteCase {
   permission: Permission;
   params: (w: World, fixture: Fixture) => Record<string, string>;
   body?: (w: World, fixture: Fixture) => unknown;
+  /** Request path with its query, when the route reads one. */
+  path?: (w: World, fixture: Fixture) => string;
+  headers?: (w: World, fixture: Fixture) => Record<string, string>;
 }
 interface Fixture {
   sampleId: string;
@@ -101,8 +106,33 @@ const ROUTES: RouteCase[] = [
   // Register import/export and map layers (uploads need a file body: see tile-packages.route.test.ts).
   { name: "GET samples export", handler: exportSamples, method: "GET", permission: "export.read", params: (w) => ({ projectId: w.projectId }) },
   { name: "POST samples import (preview)", handler: importSamples, method: "POST", permission: "sample.write", params: (w) => ({ projectId: w.projectId }), body: () => ({ csv: "sample_type\nsoil\n" }) },
+  // Offline field work: a device's reserved sample codes, and a resumable (tus) photo upload opened for a sample.
+  {
+    name: "GET sample code blocks",
+    handler: listCodeBlocks,
+    method: "GET",
+    permission: "sample.write",
+    params: (w) => ({ projectId: w.projectId }),
+    path: (w) => `/api/projects/${w.projectId}/sample-code-blocks?deviceId=matrix-device-0001`,
+  },
+  // A new device each time, so no call meets the per-device cap of unused codes.
+  { name: "POST sample code block", handler: reserveCodeBlock, method: "POST", permission: "sample.write", params: (w) => ({ projectId: w.projectId }), body: () => ({ deviceId: crypto.randomUUID(), size: 5 }) },
+  {
+    name: "POST photo upload (open)",
+    handler: openPhotoUpload,
+    method: "POST",
+    permission: "sample.write",
+    params: (w) => ({ projectId: w.projectId }),
+    headers: (_w, f) => ({ "tus-resumable": "1.0.0", "upload-length": "1024", "upload-metadata": tusMetadata({ clientPhotoId: crypto.randomUUID(), sampleId: f.sampleId, filename: "outcrop.jpg" }) }),
+  },
   { name: "GET tile packages", handler: listTilePackages, method: "GET", permission: "project.read", params: (w) => ({ projectId: w.projectId }) },
 ];
+
+/** tus 1.0.0 Upload-Metadata: comma-separated "key base64(value)" pairs. */
+const tusMetadata = (m: Record<string, string>) =>
+  Object.entries(m)
+    .map(([k, v]) => `${k} ${Buffer.from(v, "utf8").toString("base64")}`)
+    .join(",");
 
 const ROLES: (ProjectRole | "admin" | "outsider")[] = ["lead", "field_geologist", "lab_analyst", "consultant", "admin", "outsider"];
 
@@ -143,7 +173,7 @@ describe("role matrix: every route × every role", () => {
       const want = expected(role, route.permission);
       test(`${route.name} as ${role} → ${want}`, async () => {
         const f = await fixture();
-        const r = await call(route.handler, { method: route.method, params: route.params(w, f), cookie: w.cookies[role], body: route.body?.(w, f) });
+        const r = await call(route.handler, { method: route.method, path: route.path?.(w, f), params: route.params(w, f), cookie: w.cookies[role], body: route.body?.(w, f), headers: route.headers?.(w, f) });
         if (want === "2xx") expect(r.status, JSON.stringify(r.json)).toBeGreaterThanOrEqual(200);
         if (want === "2xx") expect(r.status).toBeLessThan(300);
         else expect(r.status).toBe(want);
@@ -151,7 +181,7 @@ describe("role matrix: every route × every role", () => {
     }
     test(`${route.name} without a session → 401`, async () => {
       const f = await fixture();
-      const r = await call(route.handler, { method: route.method, params: route.params(w, f), body: route.body?.(w, f) });
+      const r = await call(route.handler, { method: route.method, path: route.path?.(w, f), params: route.params(w, f), body: route.body?.(w, f), headers: route.headers?.(w, f) });
       expect(r.status).toBe(401);
       expect(r.json.error.code).toBe("unauthorized");
     });
