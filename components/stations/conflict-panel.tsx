@@ -13,7 +13,8 @@ const same = (a: unknown, b: unknown) => show(a) === show(b);
 
 /**
  * "Changed by someone else": their saved values next to what you typed, for the fields that differ.
- * Your typing stays in the form until you choose.
+ * Your values stay where they are until you choose: in the form (`kept="form"`), or in this device's outbox for an
+ * edit saved without a connection (`kept="device"`, the sync page).
  */
 export function ConflictPanel({
   fields,
@@ -22,6 +23,7 @@ export function ConflictPanel({
   onKeepMine,
   onTakeTheirs,
   busy,
+  kept = "form",
 }: {
   fields: ConflictField[];
   mine: Record<string, unknown>;
@@ -29,14 +31,15 @@ export function ConflictPanel({
   onKeepMine: () => void;
   onTakeTheirs: () => void;
   busy?: boolean;
+  kept?: "form" | "device";
 }) {
   const differing = fields.filter((f) => !same(mine[f.key], theirs[f.key]));
   return (
     <div role="alert" className="space-y-3 rounded-md border border-oxide/40 bg-oxide-light p-4" data-testid="conflict-panel">
       <p className="font-semibold text-ink">Changed by someone else</p>
       <p className="text-sm">
-        This record was saved by someone else after you opened it. Nothing was saved from your side yet, and what you typed is still in the form.
-        Compare the two versions and choose.
+        This record was saved by someone else after you opened it. Nothing was saved from your side yet;{" "}
+        {kept === "form" ? "what you typed is still in the form." : "your edit is kept on this device until you choose."} Compare the two versions and choose.
       </p>
       {differing.length > 0 ? (
         <div className="overflow-x-auto">

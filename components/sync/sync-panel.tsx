@@ -103,7 +103,7 @@ export function SyncPanel({ projectId, userId, canReserve = false }: { projectId
               )}
               {item.state === "conflict" && item.serverRecord && (
                 <div className="mt-2">
-                  <ConflictPanel fields={FIELDS.filter((f) => f.key in item.body)} mine={item.body} theirs={item.serverRecord} onKeepMine={() => keepMine(item)} onTakeTheirs={() => discard(item.opId)} />
+                  <ConflictPanel fields={FIELDS.filter((f) => f.key in item.body)} mine={item.body} theirs={item.serverRecord} onKeepMine={() => keepMine(item)} onTakeTheirs={() => discard(item.opId)} kept="device" />
                 </div>
               )}
             </li>

@@ -105,6 +105,8 @@ describe("offline codes and conflicts on a phone", () => {
     await expect.poll(() => page.locator("[data-testid=conflict-panel]").count(), { timeout: 30_000 }).toBe(1);
     expect(await page.textContent("[data-testid=theirs-description]")).toBe("Gossan cap, lead's note");
     expect(await page.textContent("[data-testid=mine-description]")).toBe("Gossan cap over sheared schist (edited offline)");
+    // There is no form on the sync page: the panel says where the edit waits.
+    expect(await page.textContent("[data-testid=conflict-panel]")).toContain("your edit is kept on this device until you choose");
     // Only the field changed here is compared: the lead's new name is not put back by this edit.
     expect(await page.locator("[data-testid=theirs-name]").count()).toBe(0);
     await page.locator("[data-testid=conflict-panel]").scrollIntoViewIfNeeded();
