@@ -61,7 +61,7 @@ export function SyncPanel({ projectId, userId, canReserve = false }: { projectId
       <div className="flex flex-wrap items-center gap-3">
         <Badge tone={online ? "ok" : "danger"}>{online ? "online" : "offline"}</Badge>
         <span className="text-sm" data-testid="sync-counts">
-          {count("queued")} queued · {count("sending")} sending · {count("failed")} failed · {count("conflict")} conflicts
+          {count("queued")} queued · {count("sending")} sending · {count("failed")} failed · {count("conflict")} {count("conflict") === 1 ? "conflict" : "conflicts"}
         </span>
         <Button type="button" onClick={syncNow} disabled={busy || !online}>
           {busy ? "Syncing…" : "Sync now"}
@@ -85,7 +85,7 @@ export function SyncPanel({ projectId, userId, canReserve = false }: { projectId
                 <Badge tone="oxide">not yet synced</Badge>
                 <Badge tone={TONE[item.state]}>{STATE_LABEL[item.state]}</Badge>
                 <span className="text-xs text-muted">
-                  {item.action === "create" ? "new" : "edit"} · saved {new Date(item.createdAt).toLocaleString()}
+                  {item.action === "create" ? "new" : "edit"} · saved {formatDateTime(item.createdAt)}
                   {item.attempts > 0 ? ` · ${item.attempts} attempt${item.attempts > 1 ? "s" : ""}` : ""}
                 </span>
               </div>
