@@ -22,10 +22,10 @@ function raw(method: string, path: string, headers: Record<string, string>, chun
     let sent = 0;
     let done = false;
     const req = httpRequest({ method, hostname: url.hostname, port: url.port, path: url.pathname + url.search, headers, agent: false }, (res) => {
+      done = true; // answered: stop sending the body
       const parts: Buffer[] = [];
       res.on("data", (c: Buffer) => parts.push(c));
       res.on("end", () => {
-        done = true;
         resolve({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(parts).toString("utf8"), sent });
       });
     });
@@ -45,6 +45,23 @@ function raw(method: string, path: string, headers: Record<string, string>, chun
       }
     })();
   });
+}
+
+/**
+ * A request the server answers before the body is sent (a 413 mid-upload). The server stops reading and closes the
+ * connection; bytes the client still sends then draw a TCP reset, which can erase the answer from the client's
+ * receive buffer before it is read — the hazard RFC 9112 §9.6 ("Tear-down") describes for servers that close at
+ * once. Tried up to three times when the connection is reset before any answer arrived; the first answer read counts.
+ */
+async function rawEarlyAnswer(method: string, path: string, headers: Record<string, string>, body: () => AsyncIterable<Uint8Array>): Promise<Raw & { sent: number }> {
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await raw(method, path, headers, body());
+    } catch (err) {
+      const code = (err as NodeJS.ErrnoException).code;
+      if (attempt >= 3 || (code !== "EPIPE" && code !== "ECONNRESET")) throw err;
+    }
+  }
 }
 
 async function* zeros(total: number, chunk = 256 * 1024): AsyncIterable<Uint8Array> {
@@ -119,7 +136,7 @@ describe("body limits over HTTP", () => {
     const cookie = await signIn("consultant");
     const projectId = await demoProjectId(cookie);
     const started = Date.now();
-    const res = await raw("POST", `/api/projects/${projectId}/scans`, { cookie, "content-type": "multipart/form-data; boundary=x", "content-length": String(200 * 1024 * 1024) }, zeros(1024 * 1024));
+    const res = await rawEarlyAnswer("POST", `/api/projects/${projectId}/scans`, { cookie, "content-type": "multipart/form-data; boundary=x", "content-length": String(200 * 1024 * 1024) }, () => zeros(1024 * 1024));
     expect(res.status).toBe(403);
     expect(Date.now() - started).toBeLessThan(10_000);
   });
@@ -127,7 +144,7 @@ describe("body limits over HTTP", () => {
   test("a lab analyst's chunked 80 MB scan upload is answered 413 after about 50 MiB, and the server keeps answering", async () => {
     const cookie = await signIn("lab");
     const projectId = await demoProjectId(cookie);
-    const res = await raw("POST", `/api/projects/${projectId}/scans`, { cookie, "content-type": "multipart/form-data; boundary=x", "transfer-encoding": "chunked" }, zeros(80 * 1024 * 1024));
+    const res = await rawEarlyAnswer("POST", `/api/projects/${projectId}/scans`, { cookie, "content-type": "multipart/form-data; boundary=x", "transfer-encoding": "chunked" }, () => zeros(80 * 1024 * 1024));
     expect(res.status).toBe(413);
     expect(res.body).toContain("payload_too_large");
     const health = await raw("GET", "/api/health", {});
@@ -137,7 +154,7 @@ describe("body limits over HTTP", () => {
   test("a chunked JSON body over 1 MiB is 413", async () => {
     const cookie = await signIn("field");
     const projectId = await demoProjectId(cookie);
-    const res = await raw("POST", `/api/projects/${projectId}/stations`, { cookie, "content-type": "application/json", "transfer-encoding": "chunked" }, zeros(3 * 1024 * 1024));
+    const res = await rawEarlyAnswer("POST", `/api/projects/${projectId}/stations`, { cookie, "content-type": "application/json", "transfer-encoding": "chunked" }, () => zeros(3 * 1024 * 1024));
     expect(res.status).toBe(413);
   });
 });
