@@ -45,6 +45,22 @@ describe("sign-in through the real page, every demo role", () => {
     await page.close();
   });
 
+  test("tab titles name the project, and the overview's counts lead to their lists", async () => {
+    const ctx = await browser.newContext();
+    const page = await ctx.newPage();
+    await signInAs(page, "lead");
+    const projectId = await openDemoProject(page);
+    const name = (await page.textContent("h1"))!.trim();
+    expect(await page.title()).toBe(`${name} · Lithodex`);
+    await page.locator("[data-testid=count-scans] a").click();
+    await page.waitForURL(`**/projects/${projectId}/scans`);
+    expect(await page.title()).toMatch(/^Scans · [A-Z0-9]+ · Lithodex$/);
+    await page.goto(`${baseUrl()}/projects/${projectId}`);
+    await page.getByRole("link", { name: "Phases confirmed" }).click();
+    await page.waitForURL(`**/projects/${projectId}/samples?status=confirmed`);
+    await ctx.close();
+  });
+
   test("signed out, a project URL sends you to sign-in", async () => {
     const page = await browser.newPage();
     await page.goto(`${baseUrl()}/projects`);

@@ -1,3 +1,4 @@
+import type { Metadata } from "next";
 import { AppHeader } from "@/components/layout/app-header";
 import { BottomNav } from "@/components/layout/bottom-nav";
 import { ProjectNav } from "@/components/layout/project-nav";
@@ -6,6 +7,13 @@ import { OutboxAutoSync, OutboxBadge } from "@/components/layout/outbox-lazy";
 import { ROLE_LABELS, roleAllows } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
 import { currentActor, orNotFound } from "@/lib/dal/session";
+
+/** Tab titles name the project: "Arroyo Pinar… · Lithodex" on the overview, "Scans · APR · Lithodex" below it. */
+export async function generateMetadata({ params }: { params: Promise<{ projectId: string }> }): Promise<Metadata> {
+  const { projectId } = await params;
+  const project = await getProject(await currentActor(), projectId).catch(() => null);
+  return project ? { title: { default: project.name, template: `%s · ${project.code} · Lithodex` } } : {};
+}
 
 export default async function ProjectLayout({ children, params }: { children: React.ReactNode; params: Promise<{ projectId: string }> }) {
   const { projectId } = await params;

@@ -11,11 +11,12 @@ export default async function ProjectOverviewPage({ params }: { params: Promise<
   const actor = await currentActor();
   const { project, counts, byStatus, members } = await orNotFound(getProjectOverview(actor, projectId));
   const tiles = [
-    { label: "Stations", value: counts.stations },
+    { label: "Stations", value: counts.stations, href: `/projects/${projectId}/stations` },
     { label: "Samples", value: counts.samples, href: `/projects/${projectId}/samples` },
-    { label: "Lab submissions", value: counts.submissions },
-    { label: "Scans", value: counts.scans },
-    { label: "Samples with confirmed phases", value: counts.samplesWithConfirmedPhases },
+    { label: "Lab submissions", value: counts.submissions, href: `/projects/${projectId}/submissions` },
+    { label: "Scans", value: counts.scans, href: `/projects/${projectId}/scans` },
+    // Which phases were confirmed in which outcrop: the phase map.
+    { label: "Samples with confirmed phases", value: counts.samplesWithConfirmedPhases, href: `/projects/${projectId}/phase-map` },
   ];
   return (
     <div className="space-y-6">
@@ -51,7 +52,11 @@ export default async function ProjectOverviewPage({ params }: { params: Promise<
             <tbody>
               {SAMPLE_STATUSES.filter((s) => byStatus[s]).map((s) => (
                 <tr key={s} className="border-t border-line first:border-0">
-                  <td className="py-1.5">{SAMPLE_STATUS_LABELS[s]}</td>
+                  <td className="py-1.5">
+                    <Link href={`/projects/${projectId}/samples?status=${s}`} className="text-brand hover:underline">
+                      {SAMPLE_STATUS_LABELS[s]}
+                    </Link>
+                  </td>
                   <td className="py-1.5 text-right tabular-nums">{byStatus[s]}</td>
                 </tr>
               ))}
