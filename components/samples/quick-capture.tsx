@@ -8,7 +8,7 @@ import { useDeviceZone } from "@/components/stations/use-device-zone";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { enqueue, isNetworkFailure, newClientId, queuePhoto, reservedCodeForOfflineSample } from "@/lib/client/offline-save";
+import { enqueue, isNetworkFailure, newClientId, peekReservedCode, queuePhoto, reservedCodeForOfflineSample } from "@/lib/client/offline-save";
 import { SAMPLE_TYPE_LABELS } from "@/lib/format";
 import type { SampleType } from "@/lib/vocabulary";
 import { cn } from "@/lib/utils";
@@ -30,7 +30,20 @@ interface Fix {
  * pick lists; everything else can be added later in the full form. Without a connection the sample goes to the
  * device outbox with a client id and the photo waits on the device (IndexedDB) until the sample has been sent.
  */
-export function QuickCapture({ projectId, stations, defaultZone }: { projectId: string; stations: { id: string; code: string; name: string | null }[]; defaultZone: string | null }) {
+export function QuickCapture({
+  projectId,
+  userId,
+  nextCode,
+  stations,
+  defaultZone,
+}: {
+  projectId: string;
+  userId: string;
+  /** The next project code when the page was served (online saves get it unless someone else saves first). */
+  nextCode: string;
+  stations: { id: string; code: string; name: string | null }[];
+  defaultZone: string | null;
+}) {
   const router = useRouter();
   const deviceZone = useDeviceZone();
   const [clientId] = useState(newClientId);
@@ -44,6 +57,8 @@ export function QuickCapture({ projectId, stations, defaultZone }: { projectId: 
   const [photo, setPhoto] = useState<File | null>(null);
   const [preview, setPreview] = useState<string | null>(null);
   const [online, setOnline] = useState(true);
+  // Offline: the device's next reserved code, shown before saving so it can go on the bag first.
+  const [reservedNext, setReservedNext] = useState<string | null>(null);
   const [busy, setBusy] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);
 
@@ -57,6 +72,22 @@ export function QuickCapture({ projectId, stations, defaultZone }: { projectId: 
       window.removeEventListener("offline", update);
     };
   }, []);
+
+  useEffect(() => {
+    if (online) return;
+    let live = true;
+    peekReservedCode(projectId, userId)
+      .then((code) => live && setReservedNext(code))
+      .catch(() => live && setReservedNext(null));
+    return () => {
+      live = false;
+    };
+  }, [online, projectId, userId]);
+  const codeHint = online
+    ? `Leave empty for the next project code, ${nextCode} (the server issues it; it moves on if someone else saves first).`
+    : reservedNext
+      ? `Leave empty to use ${reservedNext}, reserved for this device (provisional until synced; see Sync).`
+      : "No codes reserved on this device: leave empty and the server issues a code on sync, or type the pre-printed tag.";
 
   function choosePhoto(file: File | null) {
     if (preview) URL.revokeObjectURL(preview);
@@ -197,8 +228,8 @@ export function QuickCapture({ projectId, stations, defaultZone }: { projectId: 
       </fieldset>
 
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field label="Tag number (pre-printed, optional)" htmlFor="qc-tag" hint="Leave empty: offline, the next code reserved for this device is used (see Sync); online, the server issues the next project code.">
-          <input id="qc-tag" className={inputClass} value={tag} onChange={(e) => setTag(e.target.value)} autoComplete="off" autoCapitalize="characters" />
+        <Field label="Tag number (pre-printed, optional)" htmlFor="qc-tag" hint={codeHint}>
+          <input id="qc-tag" className={inputClass} placeholder={online ? nextCode : (reservedNext ?? "")} value={tag} onChange={(e) => setTag(e.target.value)} autoComplete="off" autoCapitalize="characters" />
         </Field>
         <Field label="Station (optional)" htmlFor="qc-station">
           <select id="qc-station" className={inputClass} value={stationId} onChange={(e) => setStationId(e.target.value)}>

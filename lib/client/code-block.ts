@@ -76,6 +76,11 @@ async function blocksOf(projectId: string, userId: string, knownDeviceId?: strin
   return rows.filter((b) => b.deviceId === deviceId).sort((a, b) => a.createdAt - b.createdAt);
 }
 
+/** The code a sample saved offline now would take, without taking it; null when the device holds none. */
+export async function peekReservedCode(projectId: string, userId: string): Promise<string | null> {
+  return nextUnusedCode(await blocksOf(projectId, userId))?.code ?? null;
+}
+
 /** Takes the next unused reserved code for a new sample; null when the device holds none. */
 export async function takeReservedCode(projectId: string, userId: string): Promise<string | null> {
   const d = store();

@@ -27,6 +27,11 @@ export async function reservedCodeForOfflineSample(projectId: string): Promise<{
   return (await import("./code-block")).reservedCodeForOfflineSample(projectId);
 }
 
+/** The reserved code an offline sample would take now, without taking it (for the form to show before saving). */
+export async function peekReservedCode(projectId: string, userId: string): Promise<string | null> {
+  return (await import("./code-block")).peekReservedCode(projectId, userId);
+}
+
 /** Keeps a photo on the device until its record is on the server, stamped with the account now signed in. */
 export async function queuePhoto(p: { projectId: string; owner: QueuedPhoto["owner"]; label: string; file: Blob & { name?: string } }): Promise<QueuedPhoto> {
   const [{ queuePhoto: queue }, { outboxUser }] = await Promise.all([import("./photo-queue"), import("./outbox")]);

@@ -54,12 +54,17 @@ describe("offline codes and conflicts on a phone", () => {
     });
     expect(made.status()).toBe(201);
     const structureId = (await made.json()).id as string;
-    for (const p of ["/samples/new", `/stations/${st.id}/edit`, `/stations/${st.id}`, "/sync"]) {
+    for (const p of ["/samples/new", "/samples/quick", `/stations/${st.id}/edit`, `/stations/${st.id}`, "/sync"]) {
       await page.goto(`${base}${p}`);
       await page.waitForLoadState("networkidle");
     }
 
     await ctx.setOffline(true);
+
+    // Quick capture shows the code a sample saved now would take, before saving (to write it on the bag).
+    await page.goto(`${base}/samples/quick`);
+    await expect.poll(() => page.getAttribute("#qc-tag", "placeholder"), { timeout: 15_000 }).toBe(firstCode);
+    expect(await page.textContent("form[aria-label='Quick sample']")).toContain(`Leave empty to use ${firstCode}, reserved for this device`);
 
     // A sample saved offline takes the first code of the block.
     await page.goto(`${base}/samples/new`);
