@@ -2,16 +2,17 @@
 
 import Link from "next/link";
 import { useRouter } from "next/navigation";
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import { LITHOLOGY_TERMS } from "@/components/samples/field-terms";
 import { useDeviceZone } from "@/components/stations/use-device-zone";
 import { Button, buttonClass } from "@/components/ui/button";
 import { Field, inputClass } from "@/components/ui/field";
 import { ApiError, fetchJson } from "@/lib/client/fetch-json";
-import { enqueue, isNetworkFailure, newClientId, peekReservedCode, queuePhoto, reservedCodeForOfflineSample } from "@/lib/client/offline-save";
+import { enqueue, isNetworkFailure, newClientId, queuePhoto, reservedCodeForOfflineSample } from "@/lib/client/offline-save";
 import { SAMPLE_TYPE_LABELS } from "@/lib/format";
 import type { SampleType } from "@/lib/vocabulary";
 import { cn } from "@/lib/utils";
+import { useNextSampleCode } from "./use-next-sample-code";
 
 /** The types taken most in the field first; the full list stays in the long form. */
 const QUICK_TYPES: SampleType[] = ["hand_sample", "chip", "float", "soil", "stream_sediment", "channel"];
@@ -56,38 +57,11 @@ export function QuickCapture({
   const [stationId, setStationId] = useState("");
   const [photo, setPhoto] = useState<File | null>(null);
   const [preview, setPreview] = useState<string | null>(null);
-  const [online, setOnline] = useState(true);
-  // Offline: the device's next reserved code, shown before saving so it can go on the bag first.
-  const [reservedNext, setReservedNext] = useState<string | null>(null);
+  const code = useNextSampleCode(projectId, userId, nextCode);
+  const online = code.online;
   const [busy, setBusy] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);
 
-  useEffect(() => {
-    const update = () => setOnline(navigator.onLine);
-    update();
-    window.addEventListener("online", update);
-    window.addEventListener("offline", update);
-    return () => {
-      window.removeEventListener("online", update);
-      window.removeEventListener("offline", update);
-    };
-  }, []);
-
-  useEffect(() => {
-    if (online) return;
-    let live = true;
-    peekReservedCode(projectId, userId)
-      .then((code) => live && setReservedNext(code))
-      .catch(() => live && setReservedNext(null));
-    return () => {
-      live = false;
-    };
-  }, [online, projectId, userId]);
-  const codeHint = online
-    ? `Leave empty for the next project code, ${nextCode} (the server issues it; it moves on if someone else saves first).`
-    : reservedNext
-      ? `Leave empty to use ${reservedNext}, reserved for this device (provisional until synced; see Sync).`
-      : "No codes reserved on this device: leave empty and the server issues a code on sync, or type the pre-printed tag.";
 
   function choosePhoto(file: File | null) {
     if (preview) URL.revokeObjectURL(preview);
@@ -228,8 +202,8 @@ export function QuickCapture({
       </fieldset>
 
       <div className="grid gap-3 sm:grid-cols-2">
-        <Field label="Tag number (pre-printed, optional)" htmlFor="qc-tag" hint={codeHint}>
-          <input id="qc-tag" className={inputClass} placeholder={online ? nextCode : (reservedNext ?? "")} value={tag} onChange={(e) => setTag(e.target.value)} autoComplete="off" autoCapitalize="characters" />
+        <Field label="Tag number (pre-printed, optional)" htmlFor="qc-tag" hint={code.hint}>
+          <input id="qc-tag" className={inputClass} placeholder={code.placeholder} value={tag} onChange={(e) => setTag(e.target.value)} autoComplete="off" autoCapitalize="characters" />
         </Field>
         <Field label="Station (optional)" htmlFor="qc-station">
           <select id="qc-station" className={inputClass} value={stationId} onChange={(e) => setStationId(e.target.value)}>

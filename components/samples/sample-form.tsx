@@ -20,6 +20,7 @@ import type { SampleDetails } from "@/lib/validation/sample-details";
 import { SAMPLE_TYPES, type SampleType } from "@/lib/vocabulary";
 import { FieldTermLists } from "./field-terms";
 import { SampleTypeDetails } from "./sample-type-details";
+import { useNextSampleCode } from "./use-next-sample-code";
 
 /** What the sample form edits (the API's sample fields, less status and bookkeeping). */
 export interface SampleFormValues extends LocationValue {
@@ -155,16 +156,20 @@ export function SampleForm({
   sample,
   stations,
   nextCode,
+  userId,
   defaults = {},
 }: {
   projectId: string;
   sample?: SampleRecord;
   stations: StationChoice[];
   nextCode?: string;
+  /** The signed-in account, for the device's reserved codes shown offline (new samples only). */
+  userId?: string;
   defaults?: Partial<SampleFormValues>;
 }) {
   const router = useRouter();
   const creating = !sample;
+  const codePreview = useNextSampleCode(projectId, creating ? userId : undefined, nextCode);
   const resolver = useMemo<Resolver<SampleFormValues>>(
     () =>
       lazyZodResolver(
@@ -277,12 +282,12 @@ export function SampleForm({
             label="Sample code"
             htmlFor="sf-code"
             error={err("code")}
-            hint={creating ? `Leave empty for the next code from the project sequence${nextCode ? ` (${nextCode})` : ""}, or type a pre-printed tag number.` : "Unique in the project."}
+            hint={creating ? codePreview.hint : "Unique in the project."}
           >
             <input
               id="sf-code"
               className={inputClass}
-              placeholder={nextCode}
+              placeholder={creating ? codePreview.placeholder : undefined}
               autoCapitalize="characters"
               aria-invalid={err("code") ? true : undefined}
               {...register("code", { setValueAs: (v: string) => (v?.trim() ? v.trim().toUpperCase() : undefined) })}

@@ -68,6 +68,7 @@ describe("offline codes and conflicts on a phone", () => {
 
     // A sample saved offline takes the first code of the block.
     await page.goto(`${base}/samples/new`);
+    await expect.poll(() => page.getAttribute("#sf-code", "placeholder"), { timeout: 15_000 }).toBe(firstCode);
     await page.fill("#sf-lith", "gossan");
     await page.getByRole("button", { name: "Create sample" }).click();
     await page.waitForURL("**/sync", { timeout: 30_000 });

@@ -34,6 +34,7 @@ export default async function NewSamplePage({ params, searchParams }: { params: 
             projectId={projectId}
             stations={stations}
             nextCode={formatCodeFromPattern(project.sampleCodePattern, project.code, project.sampleSeq + 1)}
+            userId={actor.userId}
             defaults={{ stationId: preset, collectorName: actor.name }}
           />
         ) : (
