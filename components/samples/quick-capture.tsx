@@ -34,14 +34,11 @@ interface Fix {
 export function QuickCapture({
   projectId,
   userId,
-  nextCode,
   stations,
   defaultZone,
 }: {
   projectId: string;
   userId: string;
-  /** The next project code when the page was served (online saves get it unless someone else saves first). */
-  nextCode: string;
   stations: { id: string; code: string; name: string | null }[];
   defaultZone: string | null;
 }) {
@@ -57,7 +54,7 @@ export function QuickCapture({
   const [stationId, setStationId] = useState("");
   const [photo, setPhoto] = useState<File | null>(null);
   const [preview, setPreview] = useState<string | null>(null);
-  const code = useNextSampleCode(projectId, userId, nextCode);
+  const code = useNextSampleCode(projectId, userId);
   const online = code.online;
   const [busy, setBusy] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);

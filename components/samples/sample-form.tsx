@@ -147,29 +147,27 @@ function zones(): string[] {
 }
 
 /**
- * Create or edit a sample with the server's own zod schema. The code is offered from the project
- * sequence (left empty, the server issues it); server field errors land on the fields; a stale edit
+ * Create or edit a sample with the server's own zod schema. A code left empty is issued by the server (offline:
+ * the device's next reserved code, shown before saving); server field errors land on the fields; a stale edit
  * shows "changed by someone else" with both versions and keeps what was typed.
  */
 export function SampleForm({
   projectId,
   sample,
   stations,
-  nextCode,
   userId,
   defaults = {},
 }: {
   projectId: string;
   sample?: SampleRecord;
   stations: StationChoice[];
-  nextCode?: string;
   /** The signed-in account, for the device's reserved codes shown offline (new samples only). */
   userId?: string;
   defaults?: Partial<SampleFormValues>;
 }) {
   const router = useRouter();
   const creating = !sample;
-  const codePreview = useNextSampleCode(projectId, creating ? userId : undefined, nextCode);
+  const codePreview = useNextSampleCode(projectId, creating ? userId : undefined);
   const resolver = useMemo<Resolver<SampleFormValues>>(
     () =>
       lazyZodResolver(

@@ -4,7 +4,6 @@ import { SampleForm } from "@/components/samples/sample-form";
 import { Card } from "@/components/ui/card";
 import { ROLE_LABELS, roleAllows } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
-import { formatCodeFromPattern } from "@/lib/validation/project";
 import { currentActor, orNotFound } from "@/lib/dal/session";
 import { listStations } from "@/lib/dal/stations";
 
@@ -33,7 +32,6 @@ export default async function NewSamplePage({ params, searchParams }: { params: 
           <SampleForm
             projectId={projectId}
             stations={stations}
-            nextCode={formatCodeFromPattern(project.sampleCodePattern, project.code, project.sampleSeq + 1)}
             userId={actor.userId}
             defaults={{ stationId: preset, collectorName: actor.name }}
           />

@@ -5,7 +5,6 @@ import { ROLE_LABELS, roleAllows } from "@/lib/dal/permissions";
 import { getProject } from "@/lib/dal/projects";
 import { currentActor, orNotFound } from "@/lib/dal/session";
 import { listStations } from "@/lib/dal/stations";
-import { formatCodeFromPattern } from "@/lib/validation/project";
 
 export const metadata: Metadata = { title: "New sample here" };
 
@@ -23,7 +22,6 @@ export default async function QuickSamplePage({ params }: { params: Promise<{ pr
           <QuickCapture
             projectId={projectId}
             userId={actor.userId}
-            nextCode={formatCodeFromPattern(project.sampleCodePattern, project.code, project.sampleSeq + 1)}
             stations={items.map((s) => ({ id: s.id, code: s.code, name: s.name }))} defaultZone={project.timeZone ?? null} />
         ) : (
           <p className="text-sm">Your role ({ROLE_LABELS[project.role]}) cannot create samples.</p>
