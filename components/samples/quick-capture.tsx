@@ -59,7 +59,6 @@ export function QuickCapture({
   const [busy, setBusy] = useState(false);
   const [problem, setProblem] = useState<string | null>(null);
 
-
   function choosePhoto(file: File | null) {
     if (preview) URL.revokeObjectURL(preview);
     setPhoto(file);
