@@ -20,12 +20,14 @@ function raw(method: string, path: string, headers: Record<string, string>, chun
   const url = new URL(path, baseUrl());
   return new Promise((resolve, reject) => {
     let sent = 0;
-    let done = false;
+    let answered = false; // the answer's headers arrived: stop sending the body
+    let done = false; // the whole answer was read: later socket errors no longer matter
     const req = httpRequest({ method, hostname: url.hostname, port: url.port, path: url.pathname + url.search, headers, agent: false }, (res) => {
-      done = true; // answered: stop sending the body
+      answered = true;
       const parts: Buffer[] = [];
       res.on("data", (c: Buffer) => parts.push(c));
       res.on("end", () => {
+        done = true;
         resolve({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(parts).toString("utf8"), sent });
       });
     });
@@ -34,7 +36,7 @@ function raw(method: string, path: string, headers: Record<string, string>, chun
       try {
         if (chunks) {
           for await (const c of chunks) {
-            if (done || req.destroyed) break;
+            if (answered || req.destroyed) break;
             sent += c.byteLength;
             if (!req.write(c)) await new Promise((r) => req.once("drain", r));
           }

@@ -22,7 +22,9 @@ export default async function QuickSamplePage({ params }: { params: Promise<{ pr
           <QuickCapture
             projectId={projectId}
             userId={actor.userId}
-            stations={items.map((s) => ({ id: s.id, code: s.code, name: s.name }))} defaultZone={project.timeZone ?? null} />
+            stations={items.map((s) => ({ id: s.id, code: s.code, name: s.name }))}
+            defaultZone={project.timeZone ?? null}
+          />
         ) : (
           <p className="text-sm">Your role ({ROLE_LABELS[project.role]}) cannot create samples.</p>
         )}
